@@ -1,0 +1,552 @@
+/**
+ * Topology stage: splits a fleet into feeders, applies switch states, finds de-energised
+ * islands and loops, orders each feeder breadth-first from its source and checks phases
+ * and the `feeder` column against connectivity.
+ *
+ * A substation part is everything reachable from a grid source without passing a
+ * feeder-head device; a feeder is what lies beyond its head device. Feeders whose heads
+ * reach the same buses are studied together as one meshed feeder.
+ */
+import { type Diagnostic, makeDiagnostic, type SourceLocation } from "./diagnostic.ts";
+import type { Network, Taint } from "./network.ts";
+import { locateField } from "./locate.ts";
+import { phaseLetters, PHASES_ABC, phasesWithin } from "./phases.ts";
+
+export type EdgeKind = "line" | "transformer" | "switch" | "placeholder";
+
+export interface EdgeRef {
+  readonly kind: EdgeKind;
+  readonly id: string;
+  /** Index into the network's array of that kind (lines, transformers, switches). */
+  readonly index: number;
+  /** True when the edge runs from the tree's parent to child in its own from → to sense. */
+  readonly forward: boolean;
+}
+
+export interface OpenPoint {
+  readonly switchId: string;
+  /** The bus of this feeder at the open device. */
+  readonly busId: string;
+  /** What is on the other side: a feeder id, "island", or "substation". */
+  readonly otherSide: string;
+}
+
+export interface FeederTopology {
+  readonly feederId: string;
+  /** Ids of all feeders studied together here (more than one when heads share buses). */
+  readonly feederIds: readonly string[];
+  readonly sourceId: string;
+  readonly headDeviceIds: readonly string[];
+  /** Bus ids, breadth-first from the source bus; the substation part comes first. */
+  readonly busIds: readonly string[];
+  readonly substationBusCount: number;
+  /** Position of each bus's parent in busIds (−1 for the source bus). */
+  readonly parent: Int32Array;
+  /** Edge joining each bus to its parent (undefined for the source bus). */
+  readonly parentEdge: readonly (EdgeRef | undefined)[];
+  /** Closed edges outside the tree: each closes a loop. */
+  readonly loopEdges: readonly EdgeRef[];
+  /** Phases present at each bus (bitmask). */
+  readonly busPhases: Uint8Array;
+  readonly openPoints: readonly OpenPoint[];
+  readonly meshed: boolean;
+  /** Set aside: input problems make the feeder untrustworthy; see reasons. */
+  readonly setAside: boolean;
+  readonly reasons: readonly Taint[];
+}
+
+export interface Island {
+  readonly busIds: readonly string[];
+  /** Open devices at the island's edge, with the feeder on their other side. */
+  readonly nextTo: readonly { readonly switchId: string; readonly feederId: string }[];
+}
+
+export interface SplitFeedersResult {
+  readonly value: {
+    readonly feeders: readonly FeederTopology[];
+    readonly islands: readonly Island[];
+  };
+  readonly diagnostics: readonly Diagnostic[];
+}
+
+interface Edge {
+  readonly kind: EdgeKind;
+  readonly id: string;
+  readonly index: number;
+  readonly a: number;
+  readonly b: number;
+  readonly phases: number;
+  readonly closed: boolean;
+  readonly head: string | undefined;
+  readonly at: SourceLocation | undefined;
+}
+
+export function splitFeeders(network: Network): SplitFeedersResult {
+  const diagnostics: Diagnostic[] = [];
+  const g = buildGraph(network);
+  const { ids, edges, adj } = g;
+  const n = ids.length;
+  const other = (e: Edge, v: number) => (e.a === v ? e.b : e.a);
+
+  // 1. Substation parts.
+  const subOf = new Int32Array(n).fill(-1);
+  const sourceConflict = new Set<number>();
+  network.sources.forEach((src, s) => {
+    const root = g.index(src.busId);
+    if (root === undefined) return;
+    if (subOf[root]! >= 0) {
+      sourceConflict.add(s).add(subOf[root]!);
+      return;
+    }
+    const queue = [root];
+    subOf[root] = s;
+    while (queue.length > 0) {
+      const v = queue.shift()!;
+      for (const ei of adj[v]!) {
+        const e = edges[ei]!;
+        if (!e.closed || e.head !== undefined) continue;
+        const w = other(e, v);
+        if (subOf[w] === -1) {
+          subOf[w] = s;
+          queue.push(w);
+        } else if (subOf[w] !== s) sourceConflict.add(s).add(subOf[w]!);
+      }
+    }
+  });
+  for (const s of [...sourceConflict].sort((a, b) => a - b)) {
+    const src = network.sources[s]!;
+    diagnostics.push(makeDiagnostic(
+      "topology.multisource",
+      "error",
+      `Grid source "${src.id}" is connected to another grid source through closed devices; ` +
+        "networks fed from two sources are not supported",
+      { at: src.at },
+    ));
+  }
+
+  // 2. Components of the non-substation buses (closed edges, heads excluded).
+  const comp = new Int32Array(n).fill(-1);
+  let nComp = 0;
+  for (let v = 0; v < n; v++) {
+    if (subOf[v]! >= 0 || comp[v]! >= 0) continue;
+    const queue = [v];
+    comp[v] = nComp;
+    while (queue.length > 0) {
+      const u = queue.shift()!;
+      for (const ei of adj[u]!) {
+        const e = edges[ei]!;
+        if (!e.closed || e.head !== undefined) continue;
+        const w = other(e, u);
+        if (subOf[w]! < 0 && comp[w] === -1) {
+          comp[w] = nComp;
+          queue.push(w);
+        }
+      }
+    }
+    nComp++;
+  }
+
+  // 3. Heads per component.
+  const headsOf: { edge: Edge; source: number }[][] = Array.from({ length: nComp }, () => []);
+  for (const e of edges) {
+    if (e.head === undefined) continue;
+    const aSub = subOf[e.a]!, bSub = subOf[e.b]!;
+    if ((aSub >= 0) === (bSub >= 0)) {
+      diagnostics.push(makeDiagnostic(
+        "topology.head",
+        "error",
+        aSub >= 0
+          ? `Feeder-head device "${e.id}" of feeder "${e.head}" joins two substation buses; it heads nothing`
+          : `Feeder-head device "${e.id}" of feeder "${e.head}" is not connected to any grid source`,
+        e.at === undefined ? {} : { at: locateField(network.headers, e.at, "heads_feeder") },
+      ));
+      if (aSub < 0) headsOf[comp[e.a]!]!.push({ edge: e, source: -1 });
+      continue;
+    }
+    const down = aSub >= 0 ? e.b : e.a;
+    headsOf[comp[down]!]!.push({ edge: e, source: aSub >= 0 ? aSub : bSub });
+  }
+
+  // 4. Feeders and islands.
+  const feederOfComp: (string | undefined)[] = new Array(nComp).fill(undefined);
+  const feeders: FeederTopology[] = [];
+  const islandComps: number[] = [];
+  for (let c = 0; c < nComp; c++) {
+    const heads = headsOf[c]!;
+    if (heads.length === 0) {
+      islandComps.push(c);
+      continue;
+    }
+    const feederIds = [...new Set(heads.map((h) => h.edge.head!))].sort();
+    feederOfComp[c] = feederIds.join("+");
+  }
+  const seenFeeder = new Map<string, number>();
+  for (let c = 0; c < nComp; c++) {
+    const heads = headsOf[c]!;
+    if (heads.length === 0) continue;
+    const feederIds = feederOfComp[c]!.split("+");
+    const feederId = feederOfComp[c]!;
+    const reasons: Taint[] = [];
+    const flag = (d: Diagnostic) => {
+      diagnostics.push({ ...d, feederId });
+      if (d.severity === "error") {
+        reasons.push({ code: d.code, file: d.at?.file ?? "", line: d.at?.line ?? 0 });
+      }
+    };
+    for (const id of feederIds) {
+      if (seenFeeder.has(id.toLowerCase())) {
+        flag(makeDiagnostic(
+          "feeder.duplicate",
+          "error",
+          `Feeder id "${id}" heads two separate networks`,
+          { at: heads.find((h) => h.edge.head === id)?.edge.at },
+        ));
+      }
+      seenFeeder.set(id.toLowerCase(), c);
+    }
+    if (feederIds.length > 1) {
+      flag(makeDiagnostic(
+        "topology.merged",
+        "warning",
+        `Feeders ${feederIds.map((f) => `"${f}"`).join(", ")} are joined through closed devices; ` +
+          `studied together as meshed feeder "${feederId}"`,
+        { at: heads[0]!.edge.at },
+      ));
+    }
+    const sources = [...new Set(heads.map((h) => h.source))];
+    if (sources.length !== 1 || sources[0]! < 0 || sourceConflict.has(sources[0]!)) {
+      if (sources.length > 1) {
+        flag(makeDiagnostic(
+          "topology.multisource",
+          "error",
+          `Feeder "${feederId}" is fed from more than one grid source through closed devices`,
+          { at: heads[0]!.edge.at },
+        ));
+      }
+      reasons.push({ code: "topology.unfed", file: "", line: 0 });
+      feeders.push(
+        unorderedFeeder(feederId, feederIds, heads.map((h) => h.edge.id), ids, comp, c, reasons),
+      );
+      continue;
+    }
+    const s = sources[0]!;
+    const headSet = new Set(heads.map((h) => h.edge));
+    const root = g.index(network.sources[s]!.busId)!;
+    const ordered = orderFeeder(g, root, s, c, subOf, comp, headSet);
+    // Phases and loads/generators on buses with those phases.
+    for (const bad of ordered.phaseProblems) {
+      flag(makeDiagnostic(
+        "phase.upstream",
+        "error",
+        `${bad.what} has phases "${
+          phaseLetters(bad.phases)
+        }" but bus "${bad.busId}" upstream of it has only "${phaseLetters(bad.available)}"`,
+        { at: bad.at === undefined ? undefined : locateField(network.headers, bad.at, "phases") },
+      ));
+    }
+    const posOf = new Map(ordered.busIds.map((b, i) => [b.toLowerCase(), i]));
+    for (const el of [...network.loads, ...network.generators]) {
+      const i = posOf.get(el.busId.toLowerCase());
+      if (i === undefined) continue;
+      const available = ordered.busPhases[i]!;
+      if (!phasesWithin(el.phases, available)) {
+        const kind = "peakPKw" in el ? "Load" : "Generator";
+        flag(makeDiagnostic(
+          "phase.upstream",
+          "error",
+          `${kind} "${el.id}" has phases "${
+            phaseLetters(el.phases)
+          }" but bus "${el.busId}" has only "${phaseLetters(available)}"`,
+          { at: locateField(network.headers, el.at, "phases") },
+        ));
+      }
+    }
+    // The feeder column against connectivity.
+    for (let i = ordered.substationBusCount; i < ordered.busIds.length; i++) {
+      const bus = network.buses[g.index(ordered.busIds[i]!)!];
+      const hint = bus?.feederHint;
+      if (bus === undefined || hint === undefined) continue;
+      if (!feederIds.some((f) => f.toLowerCase() === hint.toLowerCase())) {
+        flag(makeDiagnostic(
+          "feeder.mismatch",
+          "warning",
+          `Bus "${bus.id}" names feeder "${hint}" but is fed through feeder "${feederId}"`,
+          { at: locateField(network.headers, bus.at, "feeder"), found: hint, expected: feederId },
+        ));
+      }
+    }
+    for (const id of ordered.busIds) {
+      reasons.push(...(network.taintedBuses[id.toLowerCase()] ?? []));
+    }
+    const openPoints = ordered.openEdges.map(({ edge, bus }) => {
+      const far = other(edge, bus);
+      const side = subOf[far]! >= 0 ? "substation" : feederOfComp[comp[far]!] ?? "island";
+      return { switchId: edge.id, busId: ids[bus]!, otherSide: side };
+    });
+    feeders.push({
+      feederId,
+      feederIds,
+      sourceId: network.sources[s]!.id,
+      headDeviceIds: heads.map((h) => h.edge.id),
+      ...ordered,
+      openPoints,
+      meshed: ordered.loopEdges.length > 0,
+      setAside: reasons.length > 0,
+      reasons: dedupeReasons(reasons),
+    });
+  }
+
+  const islands: Island[] = islandComps.map((c) => {
+    const members: string[] = [];
+    const nextTo: { switchId: string; feederId: string }[] = [];
+    for (let v = 0; v < n; v++) {
+      if (comp[v] !== c) continue;
+      members.push(ids[v]!);
+      for (const ei of adj[v]!) {
+        const e = edges[ei]!;
+        const w = other(e, v);
+        if (!e.closed && comp[w] !== c) {
+          nextTo.push({
+            switchId: e.id,
+            feederId: subOf[w]! >= 0 ? "substation" : feederOfComp[comp[w]!] ?? "island",
+          });
+        }
+      }
+    }
+    const first = network.buses[g.index(members[0]!)!];
+    const beside = nextTo.length > 0
+      ? ` (next to open ${nextTo.map((t) => `"${t.switchId}" of ${t.feederId}`).join(", ")})`
+      : "";
+    diagnostics.push(makeDiagnostic(
+      "topology.island",
+      "warning",
+      `${members.length} bus(es) are not fed from any grid source with the switches in their normal state: ${
+        members.slice(0, 8).map((m) => `"${m}"`).join(", ")
+      }${members.length > 8 ? ", …" : ""}${beside}`,
+      first === undefined ? {} : { at: first.at },
+    ));
+    return { busIds: members, nextTo };
+  });
+  feeders.sort((a, b) => (a.feederId < b.feederId ? -1 : a.feederId > b.feederId ? 1 : 0));
+  return { value: { feeders, islands }, diagnostics };
+}
+
+function dedupeReasons(reasons: readonly Taint[]): Taint[] {
+  const m = new Map<string, Taint>();
+  for (const r of reasons) m.set(`${r.code}@${r.file}:${r.line}`, r);
+  return [...m.values()].sort((a, b) =>
+    a.file < b.file ? -1 : a.file > b.file ? 1 : a.line - b.line || (a.code < b.code ? -1 : 1)
+  );
+}
+
+function unorderedFeeder(
+  feederId: string,
+  feederIds: string[],
+  headDeviceIds: string[],
+  ids: readonly string[],
+  comp: Int32Array,
+  c: number,
+  reasons: Taint[],
+): FeederTopology {
+  const busIds = ids.filter((_, v) => comp[v] === c);
+  return {
+    feederId,
+    feederIds,
+    sourceId: "",
+    headDeviceIds,
+    busIds,
+    substationBusCount: 0,
+    parent: new Int32Array(busIds.length).fill(-1),
+    parentEdge: busIds.map(() => undefined),
+    loopEdges: [],
+    busPhases: new Uint8Array(busIds.length),
+    openPoints: [],
+    meshed: false,
+    setAside: true,
+    reasons: dedupeReasons(reasons),
+  };
+}
+
+interface Graph {
+  readonly ids: string[];
+  readonly edges: Edge[];
+  readonly adj: number[][];
+  index(id: string): number | undefined;
+}
+
+function buildGraph(network: Network): Graph {
+  const ids: string[] = [];
+  const byId = new Map<string, number>();
+  const add = (id: string) => {
+    const k = id.toLowerCase();
+    if (!byId.has(k)) {
+      byId.set(k, ids.length);
+      ids.push(id);
+    }
+  };
+  network.buses.forEach((b) => add(b.id));
+  network.placeholderBuses.forEach(add);
+  const edges: Edge[] = [];
+  const edge = (e: Omit<Edge, "a" | "b">, a: string, b: string) => {
+    const ia = byId.get(a.toLowerCase()), ib = byId.get(b.toLowerCase());
+    if (ia !== undefined && ib !== undefined) edges.push({ ...e, a: ia, b: ib });
+  };
+  network.lines.forEach((l, index) =>
+    edge(
+      {
+        kind: "line",
+        id: l.id,
+        index,
+        phases: l.phases,
+        closed: l.inService,
+        head: undefined,
+        at: l.at,
+      },
+      l.fromBusId,
+      l.toBusId,
+    )
+  );
+  network.transformers.forEach((t, index) =>
+    edge(
+      {
+        kind: "transformer",
+        id: t.id,
+        index,
+        phases: PHASES_ABC,
+        closed: true,
+        head: undefined,
+        at: t.at,
+      },
+      t.hvBusId,
+      t.lvBusId,
+    )
+  );
+  network.switches.forEach((s, index) =>
+    edge(
+      {
+        kind: "switch",
+        id: s.id,
+        index,
+        phases: s.phases,
+        closed: s.normallyClosed,
+        head: s.headsFeeder,
+        at: s.at,
+      },
+      s.fromBusId,
+      s.toBusId,
+    )
+  );
+  network.placeholderEdges.forEach((p, index) =>
+    edge(
+      {
+        kind: "placeholder",
+        id: p.id,
+        index,
+        phases: PHASES_ABC,
+        closed: true,
+        head: undefined,
+        at: undefined,
+      },
+      p.aBusId,
+      p.bBusId,
+    )
+  );
+  const adj: number[][] = ids.map(() => []);
+  edges.forEach((e, i) => {
+    adj[e.a]!.push(i);
+    adj[e.b]!.push(i);
+  });
+  return { ids, edges, adj, index: (id) => byId.get(id.toLowerCase()) };
+}
+
+interface PhaseProblem {
+  what: string;
+  phases: number;
+  available: number;
+  busId: string;
+  at: SourceLocation | undefined;
+}
+
+/** Breadth-first order of one feeder from its source bus through its head devices. */
+function orderFeeder(
+  g: Graph,
+  rootBus: number,
+  source: number,
+  component: number,
+  subOf: Int32Array,
+  comp: Int32Array,
+  heads: ReadonlySet<Edge>,
+) {
+  const { ids, edges, adj } = g;
+  const pos = new Map<number, number>();
+  const order: number[] = [];
+  const parent: number[] = [];
+  const parentEdge: (EdgeRef | undefined)[] = [];
+  const phases: number[] = [];
+  const loopEdges: EdgeRef[] = [];
+  const openEdges: { edge: Edge; bus: number }[] = [];
+  const phaseProblems: PhaseProblem[] = [];
+  const usedEdge = new Set<number>();
+  const inFeeder = (v: number) => subOf[v] === source || comp[v] === component;
+  pos.set(rootBus, 0);
+  order.push(rootBus);
+  parent.push(-1);
+  parentEdge.push(undefined);
+  phases.push(PHASES_ABC);
+  let substationBusCount = 0;
+  // Two passes: substation part first, then the feeder beyond its heads.
+  for (const pass of [0, 1]) {
+    const queue = pass === 0 ? [rootBus] : order.filter((v) => subOf[v] === source);
+    let head = 0;
+    while (head < queue.length) {
+      const v = queue[head++]!;
+      for (const ei of adj[v]!) {
+        const e = edges[ei]!;
+        const w = e.a === v ? e.b : e.a;
+        if (!e.closed) {
+          if (comp[v] === component && e.kind === "switch") openEdges.push({ edge: e, bus: v });
+          continue;
+        }
+        if (!inFeeder(w)) continue;
+        if (e.head !== undefined && !heads.has(e)) continue;
+        if (pass === 0 && (e.head !== undefined || subOf[w] !== source)) continue;
+        if (usedEdge.has(ei)) continue;
+        usedEdge.add(ei);
+        const ref: EdgeRef = { kind: e.kind, id: e.id, index: e.index, forward: e.a === v };
+        if (pos.has(w)) {
+          loopEdges.push(ref);
+          continue;
+        }
+        const pv = phases[pos.get(v)!]!;
+        if (!phasesWithin(e.phases, pv)) {
+          phaseProblems.push({
+            what: `${
+              e.kind === "line" ? "Line" : e.kind === "switch" ? "Switch" : "Transformer"
+            } "${e.id}"`,
+            phases: e.phases,
+            available: pv,
+            busId: ids[v]!,
+            at: e.at,
+          });
+        }
+        pos.set(w, order.length);
+        order.push(w);
+        parent.push(pos.get(v)!);
+        parentEdge.push(ref);
+        phases.push(e.phases & pv);
+        queue.push(w);
+      }
+    }
+    if (pass === 0) substationBusCount = order.length;
+  }
+  return {
+    busIds: order.map((v) => ids[v]!),
+    substationBusCount,
+    parent: Int32Array.from(parent),
+    parentEdge,
+    loopEdges,
+    busPhases: Uint8Array.from(phases),
+    openEdges,
+    phaseProblems,
+  };
+}
