@@ -147,10 +147,27 @@ export function splitFeeders(network: Network): SplitFeedersResult {
   }
 
   // 3. Heads per component.
+  const unfedHeads: { edge: Edge; reason: Taint }[] = [];
   const headsOf: { edge: Edge; source: number }[][] = Array.from({ length: nComp }, () => []);
   for (const e of edges) {
     if (e.head === undefined) continue;
     const aSub = subOf[e.a]!, bSub = subOf[e.b]!;
+    if (aSub >= 0 && bSub >= 0 && aSub !== bSub) {
+      const [s1, s2] = [network.sources[aSub]!, network.sources[bSub]!];
+      const d = makeDiagnostic(
+        "topology.multisource",
+        "error",
+        `Feeder "${e.head}" (head device "${e.id}") is fed from grid source "${s1.id}" and also, ` +
+          `without a head device, from grid source "${s2.id}"; networks fed from two sources are not supported`,
+        { feederId: e.head, ...(e.at === undefined ? {} : { at: e.at }) },
+      );
+      diagnostics.push(d);
+      unfedHeads.push({
+        edge: e,
+        reason: { code: d.code, file: e.at?.file ?? "", line: e.at?.line ?? 0 },
+      });
+      continue;
+    }
     if ((aSub >= 0) === (bSub >= 0)) {
       diagnostics.push(makeDiagnostic(
         "topology.head",
@@ -294,6 +311,24 @@ export function splitFeeders(network: Network): SplitFeedersResult {
       setAside: reasons.length > 0,
       reasons: dedupeReasons(reasons),
     });
+  }
+
+  for (const { edge, reason } of unfedHeads) {
+    feeders.push(unorderedFeeder(edge.head!, [edge.head!], [edge.id], ids, comp, -2, [reason]));
+  }
+  // Loads and generators that no feeder reaches are never studied: say so.
+  for (const el of [...network.loads, ...network.generators]) {
+    const v = g.index(el.busId);
+    if (v === undefined || subOf[v]! < 0) continue;
+    diagnostics.push(makeDiagnostic(
+      "topology.no_feeder",
+      "warning",
+      `${
+        "peakPKw" in el ? "Load" : "Generator"
+      } "${el.id}" at bus "${el.busId}" is reached from a grid ` +
+        "source without passing a feeder-head device; it belongs to no feeder and is not studied",
+      { at: locateField(network.headers, el.at, "bus") },
+    ));
   }
 
   const islands: Island[] = islandComps.map((c) => {

@@ -1,0 +1,100 @@
+/**
+ * gridtriage command line. The only layer that touches the terminal, the file system
+ * (beyond reading input tables) and the exit code.
+ *
+ * Exit codes: 0 finished clean (warnings allowed), 1 finished but feeders were set aside
+ * or errors were found, 2 usage or configuration error, 3 internal error (a bug).
+ */
+import { Command, CommanderError } from "@commander-js/extra-typings";
+import { folderSource } from "../ingest/read_network.ts";
+import { validateFleet } from "../pipeline/validate_fleet.ts";
+import { choosePaint } from "./paint.ts";
+import { formatValidation } from "./format_validation.ts";
+import { VERSION } from "./version.ts";
+
+export const EXIT_CLEAN = 0;
+export const EXIT_SET_ASIDE = 1;
+export const EXIT_USAGE = 2;
+export const EXIT_INTERNAL = 3;
+
+class UsageError extends Error {}
+
+async function checkDirectory(path: string): Promise<void> {
+  let info: Deno.FileInfo;
+  try {
+    info = await Deno.stat(path);
+  } catch {
+    throw new UsageError(
+      `Cannot open network folder "${path}": it does not exist or cannot be read`,
+    );
+  }
+  if (!info.isDirectory) {
+    throw new UsageError(`Network folder "${path}" is a file; expected a folder of CSV tables`);
+  }
+}
+
+function buildProgram(setExit: (code: number) => void) {
+  const program = new Command()
+    .name("gridtriage")
+    .description(
+      "Screening studies of distribution feeders with distributed generation.\n" +
+        "Results are screening studies: verify with a licensed engineer and local codes before acting.",
+    )
+    .version(VERSION)
+    .showHelpAfterError()
+    .exitOverride();
+
+  program.command("validate")
+    .description(
+      "Read a network folder, check every table and the topology, and list the feeders\n" +
+        "(valid or set aside) with every problem found, located by file, line and column.",
+    )
+    .argument("<network-dir>", "folder of network tables (see docs/network-format.md)")
+    .option("--json", "print machine-readable JSON instead of text")
+    .action(async (dir, options) => {
+      await checkDirectory(dir);
+      const result = await validateFleet(folderSource(dir));
+      const { forms: _forms, ...fleet } = result.value;
+      if (options.json) {
+        console.log(JSON.stringify({ fleet, diagnostics: result.diagnostics }, null, 2));
+      } else {
+        const paint = choosePaint(Deno.stdout.isTerminal(), Deno.env.get("NO_COLOR"));
+        console.log(formatValidation(result.value, result.diagnostics, paint));
+      }
+      const failed = result.diagnostics.some((d) => d.severity === "error") ||
+        fleet.feeders.some((f) => f.status === "set_aside");
+      setExit(failed ? EXIT_SET_ASIDE : EXIT_CLEAN);
+    });
+  return program;
+}
+
+/** Runs the CLI with arguments; returns the exit code instead of exiting. */
+export async function runCli(args: readonly string[]): Promise<number> {
+  let code = EXIT_CLEAN;
+  const program = buildProgram((c) => (code = c));
+  try {
+    await program.parseAsync([...args], { from: "user" });
+    return code;
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      return e.exitCode === 0 ? EXIT_CLEAN : EXIT_USAGE;
+    }
+    if (e instanceof UsageError) {
+      console.error(`gridtriage: ${e.message}`);
+      return EXIT_USAGE;
+    }
+    if (e instanceof Deno.errors.PermissionDenied) {
+      console.error(`gridtriage: ${e.message.split("\n")[0]}`);
+      return EXIT_USAGE;
+    }
+    console.error(
+      `gridtriage: internal error: ${e instanceof Error ? e.message : String(e)}\n` +
+        "This is a bug in gridtriage; please report it with the input that caused it.",
+    );
+    return EXIT_INTERNAL;
+  }
+}
+
+if (import.meta.main) {
+  Deno.exit(await runCli(Deno.args));
+}
