@@ -90,6 +90,6 @@ export async function streamCsvFile(
   onRow: (row: CsvRow) => void,
 ): Promise<CsvProblem[]> {
   const file = await Deno.open(path, { read: true });
-  const text = file.readable.pipeThrough(new TextDecoderStream("utf-8"));
+  const text = file.readable.pipeThrough(new TextDecoderStream("utf-8", { fatal: true }));
   return await parseCsvChunks(text, onRow);
 }

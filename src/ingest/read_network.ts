@@ -64,19 +64,23 @@ export async function readNetworkTables(source: TableSource): Promise<ReadNetwor
     const [key, spec] of Object.entries(TABLES) as [keyof Tables, TableSpec<string, unknown>][]
   ) {
     let csv: CsvResult | undefined;
+    let unreadable = false;
     try {
       csv = await source(spec.file);
     } catch (e) {
       diagnostics.push(makeDiagnostic(
         "table.unreadable",
         "error",
-        `Cannot read ${spec.file}: ${e instanceof Error ? e.message : String(e)}`,
+        e instanceof TypeError
+          ? `Cannot read ${spec.file}: it is not valid UTF-8 text (save the export as UTF-8)`
+          : `Cannot read ${spec.file}: ${e instanceof Error ? e.message : String(e)}`,
         { at: { file: spec.file } },
       ));
       csv = undefined;
+      unreadable = true;
     }
     if (csv === undefined) {
-      if (spec.required) {
+      if (spec.required && !unreadable) {
         diagnostics.push(makeDiagnostic(
           "table.missing",
           "error",

@@ -96,7 +96,7 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
   ): Bus | undefined => {
     const bus = busById.get(id.toLowerCase());
     if (bus !== undefined) return bus;
-    if (rejectedBusIds.has(id.toLowerCase())) {
+    if (rejectedBusIds.has(id.toLowerCase()) || !tables.buses.present) {
       taintBus(id, "ref.rejected", file, line);
       return undefined;
     }
