@@ -1,0 +1,84 @@
+/** The CLI's contract: exit codes, JSON output, colour rules. */
+import { deepStrictEqual as assertEquals, ok as assert } from "node:assert/strict";
+import { EXIT_CLEAN, EXIT_SET_ASIDE, EXIT_USAGE, runCli } from "./main.ts";
+import { choosePaint, NO_PAINT } from "./paint.ts";
+
+/** Runs the CLI capturing what it prints. */
+async function capture(args: string[]): Promise<{ code: number; out: string; err: string }> {
+  const out: string[] = [], err: string[] = [];
+  const log = console.log, error = console.error;
+  console.log = (...a: unknown[]) => out.push(a.join(" "));
+  console.error = (...a: unknown[]) => err.push(a.join(" "));
+  // commander writes help and errors to process streams.
+  const proc = (await import("node:process")).default;
+  const w1 = proc.stdout.write, w2 = proc.stderr.write;
+  proc.stdout.write = ((s: string) => (out.push(String(s)), true)) as typeof proc.stdout.write;
+  proc.stderr.write = ((s: string) => (err.push(String(s)), true)) as typeof proc.stderr.write;
+  try {
+    const code = await runCli(args);
+    return { code, out: out.join("\n"), err: err.join("\n") };
+  } finally {
+    console.log = log;
+    console.error = error;
+    proc.stdout.write = w1;
+    proc.stderr.write = w2;
+  }
+}
+
+Deno.test("runCli() validate exits 0 on the clean sample fleet and lists its feeders", async () => {
+  const { code, out } = await capture(["validate", "data-samples/vellmark"]);
+  assertEquals(code, EXIT_CLEAN);
+  assert(out.includes("13 feeders, 13 valid, 0 set aside"), out);
+  assert(out.includes("Screening study"), "the caution is printed");
+});
+
+Deno.test("runCli() validate --json prints the fleet and diagnostics as JSON", async () => {
+  const { code, out } = await capture(["validate", "data-samples/vellmark", "--json"]);
+  assertEquals(code, EXIT_CLEAN);
+  const parsed = JSON.parse(out);
+  assertEquals(parsed.fleet.feeders.length, 13);
+  assert(Array.isArray(parsed.diagnostics));
+  assertEquals(parsed.fleet.forms, undefined);
+});
+
+Deno.test("runCli() validate exits 1 when feeders are set aside", async () => {
+  const { code, out } = await capture(["validate", "data-samples/with-errors"]);
+  assertEquals(code, EXIT_SET_ASIDE);
+  assert(out.includes("set aside"));
+});
+
+Deno.test("runCli() exits 2 on usage errors without a stack trace", async () => {
+  for (
+    const args of [["frobnicate"], ["validate"], ["validate", "no/such/folder"], [
+      "validate",
+      "README.md",
+    ], ["--bogus"]]
+  ) {
+    const { code, err } = await capture(args);
+    assertEquals(code, EXIT_USAGE, args.join(" "));
+    assert(!/\bat .*\.ts:\d+/.test(err), `no stack trace for ${args.join(" ")}`);
+  }
+});
+
+Deno.test("runCli() --help exits 0 on every command", async () => {
+  for (const args of [["--help"], ["validate", "--help"], ["--version"]]) {
+    const { code, out } = await capture(args);
+    assertEquals(code, EXIT_CLEAN);
+    assert(out.length > 0);
+  }
+});
+
+Deno.test("choosePaint() colours only a terminal without NO_COLOR (no-color.org convention)", () => {
+  const cases: [boolean, string | undefined, boolean][] = [
+    [true, undefined, true],
+    [true, "", true],
+    [true, "1", false],
+    [false, undefined, false],
+    [false, "1", false],
+  ];
+  for (const [tty, noColor, coloured] of cases) {
+    const paint = choosePaint(tty, noColor);
+    assertEquals(paint !== NO_PAINT, coloured, `tty=${tty} NO_COLOR=${noColor}`);
+    assertEquals(paint.red("x") !== "x", coloured);
+  }
+});
