@@ -26,14 +26,14 @@ async function capture(args: string[]): Promise<{ code: number; out: string; err
 }
 
 Deno.test("runCli() validate exits 0 on the clean sample fleet and lists its feeders", async () => {
-  const { code, out } = await capture(["validate", "data-samples/vellmark"]);
+  const { code, out } = await capture(["validate", "data-samples/norvessa"]);
   assertEquals(code, EXIT_CLEAN);
   assert(out.includes("13 feeders, 13 valid, 0 set aside"), out);
   assert(out.includes("Screening study"), "the caution is printed");
 });
 
 Deno.test("runCli() validate --json prints the fleet and diagnostics as JSON", async () => {
-  const { code, out } = await capture(["validate", "data-samples/vellmark", "--json"]);
+  const { code, out } = await capture(["validate", "data-samples/norvessa", "--json"]);
   assertEquals(code, EXIT_CLEAN);
   const parsed = JSON.parse(out);
   assertEquals(parsed.fleet.feeders.length, 13);

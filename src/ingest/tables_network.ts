@@ -226,7 +226,8 @@ const vectorGroupText = z.string().transform((s, ctx) => {
     ctx.issues.push({
       code: "custom",
       input: s,
-      message: "must be a vector group such as Dyn11, YNyn0 or Yzn11 (clock 0 to 11)",
+      message:
+        "must be a vector group such as Dyn11, YNyn0 or Yzn11 (clock 0 to 11; odd for star–delta, even for star–star and delta–delta)",
     });
     return z.NEVER;
   }

@@ -75,7 +75,11 @@ export function normalizeUnitText(text: string): string {
     .replace(/[\u00B5\u03BC]/g, "u")
     .replace(/[\u00B7\u22C5*]/g, " ")
     .replace(/\u00B2/g, "^2")
-    .replace(/\s+/g, " ");
+    .replace(/\u00B0/g, "deg")
+    .replace(/\s+/g, " ")
+    // Reactive power in any capitalisation (kVAR, MVAr, var): our var unit. mathjs has a
+    // complex-valued VAR of its own that does not convert to a plain number.
+    .replace(/(^|[^A-Za-z])([kMGm]?)var(?=$|[^A-Za-z])/gi, "$1$2var");
 }
 
 const DIMENSIONLESS: Record<"pu" | "%", Record<string, number>> = {
@@ -123,7 +127,12 @@ export function resolveUnit(unitText: string, internal: InternalUnit): UnitResol
       message: `unit "${unitText}" cannot be converted to ${internal}`,
     };
   }
-  const factor = parsed.toNumber(MATHJS_NAME[internal]);
+  let factor: number;
+  try {
+    factor = parsed.toNumber(MATHJS_NAME[internal]);
+  } catch {
+    return { ok: false, code: "unit.unknown", message: `unit "${unitText}" has no usable scale` };
+  }
   if (!Number.isFinite(factor) || factor <= 0) {
     return { ok: false, code: "unit.unknown", message: `unit "${unitText}" has no usable scale` };
   }

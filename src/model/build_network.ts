@@ -60,6 +60,15 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
   };
 
   const s = tables.settings.rows[0]?.value;
+  const extra = tables.settings.rows[1];
+  if (extra !== undefined) {
+    diagnostics.push(makeDiagnostic(
+      "table.rows",
+      "warning",
+      `${tables.settings.file} holds one row of settings; the rows from line ${extra.line} on are ignored`,
+      { at: { file: tables.settings.file, line: extra.line } },
+    ));
+  }
   const settings = {
     ...(s?.company === undefined ? {} : { company: s.company }),
     frequencyHz: s?.frequency ?? 50,
@@ -374,6 +383,22 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
     );
     if (bus === undefined) continue;
     const curve = row.value.reactive_curve;
+    const found = curve === undefined
+      ? undefined
+      : curves.value.find((c) => c.id.toLowerCase() === curve.toLowerCase());
+    if (found !== undefined && found.kind !== row.value.reactive_mode) {
+      error(
+        "curve.kind",
+        `Generator "${row.value.id}" on line ${row.line}: reactive_mode ${row.value.reactive_mode} cannot use curve "${found.id}" of kind ${found.kind}`,
+        {
+          file,
+          line: row.line,
+          ...columnOf(tables, TABLES.generators, "reactive_curve"),
+          field: "reactive_curve",
+        },
+        [bus.id],
+      );
+    }
     if (curve !== undefined && !curveIds.has(curve.toLowerCase())) {
       if (curves.bad.has(curve.toLowerCase())) taintBus(bus.id, "ref.rejected", file, row.line);
       else {

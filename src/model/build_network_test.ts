@@ -144,6 +144,32 @@ const CASES: {
     tainted: ["a2", "a3"],
   },
   {
+    name: "an asymmetric phase matrix",
+    files: {
+      ...TWO_FEEDERS,
+      "line_types.csv": withModelColumn() + "M2,matrix,overhead,,,,,,200\n",
+      "line_type_matrix.csv":
+        "type,row,col,r [ohm/km],x [ohm/km]\nM2,a,a,0.3,0.8\nM2,a,b,0.1,0.4\nM2,b,a,0.1,0.5\nM2,b,b,0.3,0.8\n",
+      "lines.csv": TWO_FEEDERS["lines.csv"]!.replace("LA3,A2,A3,OH50,2.5,A", "LA3,A2,A3,M2,2.5,AB"),
+    },
+    code: "linetype.matrix",
+    at: { file: "line_type_matrix.csv", line: 4 },
+    tainted: ["a2", "a3"],
+  },
+  {
+    name: "a generator whose reactive mode does not fit its curve",
+    files: {
+      ...TWO_FEEDERS,
+      "reactive_curves.csv":
+        "curve,kind,point,x,y\nPF1,power_factor_of_p,1,0.5,1\nPF1,power_factor_of_p,2,1.0,0.9\n",
+      "generators.csv":
+        "id,bus,kind,rated_power [kVA],active_power [kW],reactive_mode,reactive_curve\nPV1,A2,converter,800,750,volt_var,PF1\n",
+    },
+    code: "curve.kind",
+    at: { file: "generators.csv", line: 2, column: 7, field: "reactive_curve" },
+    tainted: ["a2"],
+  },
+  {
     name: "a line whose phases do not match its type's conductors",
     files: {
       ...TWO_FEEDERS,
@@ -200,4 +226,15 @@ Deno.test("buildNetwork() converts capacitance columns to susceptance with the n
     frequencyHz: 60,
     earthResistivityOhmM: 100,
   });
+});
+
+Deno.test("buildNetwork() warns that rows of settings.csv after the first are ignored", async () => {
+  const { diagnostics } = await build({
+    ...TWO_FEEDERS,
+    "settings.csv": "company,frequency [Hz]\nA,50\nB,60\n",
+  });
+  assertEquals(
+    diagnostics.map((d) => [d.code, d.severity, d.at]),
+    [["table.rows", "warning", { file: "settings.csv", line: 3 }]],
+  );
 });

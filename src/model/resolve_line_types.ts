@@ -78,6 +78,18 @@ export function resolveLineTypes(
           );
           continue;
         }
+        if (got.has(`${i},${j}`)) {
+          const k = i * n + j;
+          if (re[k] !== m.value.r || im[k] !== m.value.x || b[k] !== m.value.b) {
+            fail(
+              "linetype.matrix",
+              `Line type "${r.id}": matrix entry ${m.value.row}${m.value.col} disagrees with entry ${m.value.col}${m.value.row}; the matrix must be symmetric`,
+              tables.lineTypeMatrix.file,
+              m.line,
+            );
+          }
+          continue;
+        }
         for (const [a, c] of [[i, j], [j, i]] as const) {
           re[a * n + c] = m.value.r;
           im[a * n + c] = m.value.x;
@@ -85,6 +97,7 @@ export function resolveLineTypes(
         }
         got.add(`${i},${j}`).add(`${j},${i}`);
       }
+      if (failed.has(r.id)) continue;
       if (n === 0 || got.size !== n * n) {
         fail(
           "linetype.matrix",

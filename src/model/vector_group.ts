@@ -9,6 +9,13 @@ export function parseVectorGroup(text: string): VectorGroup | undefined {
   if (!m) return undefined;
   const clock = Number(m[3]);
   if (clock > 11) return undefined;
+  // Star and delta windings: like connections shift by even clock numbers, unlike ones by
+  // odd numbers (IEC 60076-1 vector groups; common practice). Zigzag windings allow both.
+  const hvStar = m[1]!.startsWith("Y"), lvStar = m[2]!.startsWith("y");
+  const hvDelta = m[1] === "D", lvDelta = m[2] === "d";
+  const like = (hvStar && lvStar) || (hvDelta && lvDelta);
+  const unlike = (hvStar && lvDelta) || (hvDelta && lvStar);
+  if ((like && clock % 2 === 1) || (unlike && clock % 2 === 0)) return undefined;
   return {
     hv: m[1] as WindingConnection,
     lv: m[2]!.toUpperCase() as WindingConnection,
