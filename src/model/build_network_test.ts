@@ -170,6 +170,19 @@ const CASES: {
     tainted: ["a2"],
   },
   {
+    name: "a geometry line type whose conductors overlap",
+    files: {
+      ...TWO_FEEDERS,
+      "line_types.csv": withModelColumn() + "G1,geometry,overhead,,,,,,200\n",
+      "conductors.csv": "id,resistance [ohm/km],gmr [mm],diameter [mm]\nAL50,0.6,2.5,9\n",
+      "line_geometry.csv": "type,position,conductor,x [m],y [m]\nG1,a,AL50,0,9\nG1,b,AL50,0,9\n",
+      "lines.csv": TWO_FEEDERS["lines.csv"]!.replace("LA3,A2,A3,OH50,2.5,A", "LA3,A2,A3,G1,2.5,AB"),
+    },
+    code: "linetype.geometry",
+    at: { file: "line_types.csv", line: 4 },
+    tainted: ["a2", "a3"],
+  },
+  {
     name: "a line whose phases do not match its type's conductors",
     files: {
       ...TWO_FEEDERS,

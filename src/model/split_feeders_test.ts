@@ -178,3 +178,15 @@ Deno.test("splitFeeders() reports a head device that no source feeds", async () 
   assertEquals(d.at, { file: "switches.csv", line: 7, column: 6, field: "heads_feeder" });
   assertEquals(feeders.find((f) => f.feederId === "F9")?.setAside, true);
 });
+
+Deno.test("splitFeeders() reports one feeder id heading two separate networks", async () => {
+  const files = edit(
+    "switches.csv",
+    (t) => t.replace("CB2,BB,SB1,breaker,closed,F2", "CB2,BB,SB1,breaker,closed,F1"),
+  );
+  const { feeders, diagnostics } = await split(files);
+  const d = diagnostics.find((d) => d.code === "feeder.duplicate")!;
+  assertEquals(d.severity, "error");
+  assertEquals(d.at, { file: "switches.csv", line: 3 });
+  assert(feeders.some((f) => f.setAside));
+});
