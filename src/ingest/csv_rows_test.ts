@@ -295,6 +295,23 @@ Deno.test("streamCsvFile() keeps characters whole across the file's read chunks"
   });
 });
 
+Deno.test("streamCsvFile() rejects bytes that are not UTF-8 with a TypeError", async () => {
+  // Unicode ch. 3: FC is never a well-formed UTF-8 byte (a Latin-1 "ü"); the decoder is
+  // fatal, so the file is refused instead of read with U+FFFD in it.
+  const bytes = new Uint8Array([...new TextEncoder().encode("id,name\n1,Gr"), 0xfc, 0x6e, 0x0a]);
+  await withTempDir(async (dir) => {
+    const path = await Deno.makeTempFile({ dir, suffix: ".csv" });
+    await Deno.writeFile(path, bytes);
+    let error: unknown;
+    try {
+      await streamCsvFile(path, () => {});
+    } catch (e) {
+      error = e;
+    }
+    assert(error instanceof TypeError, String(error));
+  });
+});
+
 Deno.test("streamCsvFile() rejects with NotFound for a missing file", async () => {
   await withTempDir(async (dir) => {
     let error: unknown;

@@ -1,9 +1,11 @@
 import { deepStrictEqual, equal, ok as assert } from "node:assert/strict";
+import { join } from "node:path";
+import { fileURLToPath } from "node:url";
 import type { Diagnostic, SourceLocation } from "../model/diagnostic.ts";
 import { PHASES_ABC } from "../model/phases.ts";
 import { TWO_FEEDERS } from "../../tests/fixtures/two_feeders.ts";
 import { parseCsvText } from "./csv_rows.ts";
-import { memorySource, readNetworkTables, type TableSource } from "./read_network.ts";
+import { folderSource, memorySource, readNetworkTables, type TableSource } from "./read_network.ts";
 import { parseHeaderCell, readTableRows } from "./read_table.ts";
 import type { TableSpec } from "./table_kit.ts";
 import * as dev from "./tables_devices.ts";
@@ -515,16 +517,14 @@ Deno.test("readTableRows() rejects non-finite numbers in every quantity column",
   }
 });
 
-Deno.test("readTableRows() reads a reactive column declared in kVAR", {
-  ignore: true,
-}, async () => {
-  // BUG: resolveUnit("kVAR", "kvar") throws a TypeError (mathjs 15 has its own complex
-  // "VAR" unit), so readTableRows throws and validateFleet crashes on a loads.csv with
-  // `peak_q [kVAR]` (see units_test.ts). Expected: kVAR read as kvar (common practice).
-  const text = "id,bus,peak_p [kW],peak_q [kVAR],min_p [kW],min_q [kVAR]\nD1,A,400,100,120,30\n";
+Deno.test("readTableRows() reads reactive columns declared in kVAR and MVAr", async () => {
+  // Common practice spellings of kvar and Mvar; SI-prefix M = 1e6, k = 1e3.
+  const text = "id,bus,peak_p [kW],peak_q [kVAR],min_p [kW],min_q [MVAr]\nD1,A,400,100,120,0.03\n";
   const result = await readText(dev.loadTable, text);
   deepStrictEqual(result.diagnostics, []);
-  equal((result.rows[0]?.value as Record<string, number>).peak_q, 100);
+  const value = result.rows[0]?.value as Record<string, number>;
+  equal(value.peak_q, 100);
+  assert(Math.abs(value.min_q! - 30) <= REL_TOL * 30, String(value.min_q));
 });
 
 Deno.test("readTableRows() reports a header unit named like an object property", {
@@ -620,4 +620,60 @@ Deno.test("readNetworkTables() reports missing, unquotable and unreadable tables
   const optional = await readNetworkTables(memorySource(withoutLoads));
   deepStrictEqual(optional.diagnostics, []);
   equal(optional.value.loads.present, false);
+});
+
+const TMP_ROOT = fileURLToPath(new URL("../../reports/.test-tmp/", import.meta.url));
+
+/** Writes `files` into a fresh folder under reports/.test-tmp, runs `body`, removes it. */
+async function withFolder(
+  files: Readonly<Record<string, string | Uint8Array>>,
+  body: (dir: string) => Promise<void>,
+): Promise<void> {
+  await Deno.mkdir(TMP_ROOT, { recursive: true });
+  const dir = await Deno.makeTempDir({ dir: TMP_ROOT, prefix: "read_table_" });
+  try {
+    for (const [name, content] of Object.entries(files)) {
+      if (typeof content === "string") await Deno.writeTextFile(join(dir, name), content);
+      else await Deno.writeFile(join(dir, name), content);
+    }
+    await body(dir);
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+}
+
+Deno.test("readNetworkTables() reads a folder on disk like the same tables in memory", async () => {
+  // The same bytes through streamCsvFile and through parseCsvText give the same rows,
+  // lines and diagnostics; one row is made bad so the comparison covers diagnostics.
+  const files = {
+    ...TWO_FEEDERS,
+    "lines.csv": TWO_FEEDERS["lines.csv"]!.replace("LA2,A1,A2,CAB240,0.8", "LA2,A1,A2,CAB240,-0.8"),
+  };
+  await withFolder(files, async (dir) => {
+    const disk = await readNetworkTables(folderSource(dir));
+    const memory = await readNetworkTables(memorySource(files));
+    deepStrictEqual(disk.diagnostics, memory.diagnostics);
+    deepStrictEqual(disk.diagnostics.map((d) => [d.code, d.at]), [
+      ["value.invalid", { file: "lines.csv", line: 3, column: 5, field: "length" }],
+    ]);
+    deepStrictEqual(disk.value, memory.value);
+  });
+});
+
+Deno.test("readNetworkTables() reports a file that is not UTF-8 once, as unreadable", async () => {
+  // Unicode ch. 3: byte FC is never well-formed UTF-8; it is what a Latin-1 export
+  // writes for "ü" ("Grün" = 47 72 FC 6E).
+  const header = new TextEncoder().encode("id,from,to,type,length [km]\nL1,A,B,T,1\nL2,Gr");
+  const latin1 = new Uint8Array([...header, 0xfc, 0x6e, 0x2c, 0x31, 0x0a]);
+  await withFolder({ ...TWO_FEEDERS, "lines.csv": latin1 }, async (dir) => {
+    const result = await readNetworkTables(folderSource(dir));
+    const forLines = result.diagnostics.filter((d) => d.at?.file === "lines.csv");
+    deepStrictEqual(forLines.map((d) => [d.code, d.severity, d.at]), [
+      ["table.unreadable", "error", { file: "lines.csv" }],
+    ]);
+    equal(
+      forLines[0]!.message,
+      "Cannot read lines.csv: it is not valid UTF-8 text (save the export as UTF-8)",
+    );
+  });
 });

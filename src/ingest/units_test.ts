@@ -78,6 +78,7 @@ const CONVERSIONS: readonly ConversionCase[] = [
   { text: "Hz", internal: "Hz", factor: 1, source: "identity" },
   { text: "kHz", internal: "Hz", factor: 1e3, source: "SI-prefix k = 1e3" },
   { text: "rad", internal: "deg", factor: 180 / Math.PI, source: "SI-derived 1° = π/180 rad" },
+  { text: "\u00B0", internal: "deg", factor: 1, source: "° (U+00B0) is the degree symbol" },
   { text: "ohm m", internal: "ohm m", factor: 1, source: "identity" },
   { text: "Ω·m", internal: "ohm m", factor: 1, source: "SI-derived: · joins unit symbols" },
   { text: "ohm*m", internal: "ohm m", factor: 1, source: "common practice: * for ·" },
@@ -118,27 +119,26 @@ Deno.test("resolveUnit() converts kft (1000 ft) to km", { ignore: true }, () => 
   }
 });
 
-Deno.test(
-  "resolveUnit() reads the upper-case spelling kVAR as kvar without throwing",
-  { ignore: true },
-  () => {
-    // BUG: mathjs 15 ships its own unit "VAR" whose value is the complex number i (VA·i);
-    // parsed.toNumber("kvar") then throws a TypeError, so resolveUnit throws for "VAR",
-    // "kVAR" and "MVAR" on reactive columns instead of returning a result. "kVAR" is a
-    // very common spelling in utility data (common practice), so a header such as
-    // `peak_q [kVAR]` crashes the whole validation (see read_table_test.ts).
-    const cases = [
-      { text: "kVAR", factor: 1 },
-      { text: "MVAR", factor: 1e3 }, // SI-prefix M = 1e6, k = 1e3
-      { text: "VAR", factor: 1e-3 },
-    ];
-    for (const c of cases) {
-      const r = resolveUnit(c.text, "kvar");
-      assert(r.ok, `${c.text}: ${JSON.stringify(r)}`);
-      assert(Math.abs(r.factor - c.factor) <= REL_TOL * c.factor, `${c.text}: ${r.factor}`);
+Deno.test("resolveUnit() reads var in any capitalisation without throwing", () => {
+  // mathjs 15 has a complex-valued unit "VAR" of its own; the upper-case spellings are
+  // common practice in utility data and must still mean the var (IEC 80000-6 [memory]).
+  const cases = [
+    { text: "kVAR", factor: 1 },
+    { text: "MVAR", factor: 1e3 }, // SI-prefix M = 1e6, k = 1e3
+    { text: "VAR", factor: 1e-3 }, // SI-prefix k = 1e3
+    { text: "MVAr", factor: 1e3 },
+    { text: "Kvar", factor: undefined }, // K is no SI prefix: rejected, not thrown
+  ];
+  for (const c of cases) {
+    const r = resolveUnit(c.text, "kvar");
+    if (c.factor === undefined) {
+      assert(!r.ok && r.code === "unit.unknown", `${c.text}: ${JSON.stringify(r)}`);
+      continue;
     }
-  },
-);
+    assert(r.ok, `${c.text}: ${JSON.stringify(r)}`);
+    assert(Math.abs(r.factor - c.factor) <= REL_TOL * c.factor, `${c.text}: ${r.factor}`);
+  }
+});
 
 interface FailureCase {
   readonly text: string;
@@ -169,6 +169,8 @@ const FAILURES: readonly FailureCase[] = [
   { text: "MW", internal: "MVA", code: "unit.dimension", why: "active is not apparent" },
   { text: "kvar", internal: "kVA", code: "unit.dimension", why: "reactive is not apparent" },
   { text: "kVA", internal: "kvar", code: "unit.dimension", why: "apparent is not reactive" },
+  { text: "kVAR", internal: "kW", code: "unit.dimension", why: "reactive is not active" },
+  { text: "MVAR", internal: "MVA", code: "unit.dimension", why: "reactive is not apparent" },
   // Ratios against quantities.
   { text: "%", internal: "km", code: "unit.dimension", why: "a ratio is not a length" },
   { text: "pu", internal: "kV", code: "unit.dimension", why: "a ratio is not a voltage" },
@@ -241,8 +243,8 @@ Deno.test(
 );
 
 Deno.test("normalizeUnitText() rewrites the symbols users type into mathjs spellings", () => {
-  // Code points: Ω U+03A9 and U+2126, µ U+00B5 and U+03BC, · U+00B7, ⋅ U+22C5, ² U+00B2
-  // (Unicode Character Database).
+  // Code points: Ω U+03A9 and U+2126, µ U+00B5 and U+03BC, · U+00B7, ⋅ U+22C5, ² U+00B2,
+  // ° U+00B0 (Unicode Character Database); var in any capitalisation (common practice).
   const cases: readonly [string, string][] = [
     ["\u03A9/km", "ohm/km"],
     ["\u2126/km", "ohm/km"],
@@ -256,6 +258,10 @@ Deno.test("normalizeUnitText() rewrites the symbols users type into mathjs spell
     ["  kV  ", "kV"],
     ["ohm   /  km", "ohm / km"],
     ["kvar", "kvar"],
+    ["kVAR", "kvar"],
+    ["MVAr", "Mvar"],
+    ["kVAR/km", "kvar/km"],
+    ["\u00B0", "deg"],
   ];
   for (const [input, expected] of cases) {
     equal(normalizeUnitText(input), expected, JSON.stringify(input));
