@@ -24,13 +24,42 @@ export interface CsvResult {
   readonly problems: CsvProblem[];
 }
 
-/** Counts line breaks inside a row's fields (quoted fields may span lines). */
+/** Counts line breaks (LF, CRLF or a lone CR) inside a row's fields. */
 function countBreaks(cells: readonly string[]): number {
   let n = 0;
   for (const cell of cells) {
-    for (let i = cell.indexOf("\n"); i >= 0; i = cell.indexOf("\n", i + 1)) n++;
+    for (let i = 0; i < cell.length; i++) {
+      const c = cell.charCodeAt(i);
+      if (c === 10 || (c === 13 && cell.charCodeAt(i + 1) !== 10)) n++;
+    }
   }
   return n;
+}
+
+/**
+ * Prepares decoded chunks for papaparse: drops a leading byte-order mark (before parsing, so
+ * a quoted first cell stays quoted) and holds text back until the first line break, since
+ * papaparse guesses the line ending from its first chunk.
+ */
+async function* prepareChunks(
+  chunks: AsyncIterable<string> | Iterable<string>,
+): AsyncGenerator<string> {
+  let head = "";
+  let started = false;
+  for await (const chunk of chunks) {
+    if (started) {
+      yield chunk;
+      continue;
+    }
+    head += chunk;
+    const breakAt = head.search(/[\r\n]/);
+    // A CR at the very end may be the first half of a CRLF: wait for the next chunk.
+    if (breakAt >= 0 && !(breakAt === head.length - 1 && head.endsWith("\r"))) {
+      started = true;
+      yield head.replace(/^\uFEFF/, "");
+    }
+  }
+  if (!started && head !== "") yield head.replace(/^\uFEFF/, "");
 }
 
 /**
@@ -43,16 +72,13 @@ export function parseCsvChunks(
 ): Promise<CsvProblem[]> {
   const problems: CsvProblem[] = [];
   let line = 1;
-  let first = true;
   return new Promise((resolve, reject) => {
-    Papa.parse<string[]>(Readable.from(chunks, { objectMode: true }), {
+    Papa.parse<string[]>(Readable.from(prepareChunks(chunks), { objectMode: true }), {
       header: false,
       skipEmptyLines: false,
       delimiter: ",",
       step(results) {
         const cells = results.data;
-        if (first && cells[0] !== undefined) cells[0] = cells[0].replace(/^\uFEFF/, "");
-        first = false;
         const start = line;
         line += 1 + countBreaks(cells);
         for (const e of results.errors) {

@@ -86,11 +86,10 @@ Deno.test("parseCsvText() gives each row the line where it starts", async () => 
 
 Deno.test(
   "parseCsvText() counts line breaks inside quoted fields of a CR-only file",
-  { ignore: true },
   () => {
-    // BUG: countBreaks() counts only "\n"; papaparse also accepts bare "\r" line endings
-    // (old Mac files), so a quoted field with a bare CR inside puts every later row one
-    // line too early: row "2" below comes out on line 3 instead of 4.
+    // Regression: papaparse also accepts bare "\r" line endings (old Mac files); a bare CR
+    // inside a quoted field must count as a line break, or later rows come out one line
+    // too early (row "2" below is on line 4).
     return parseCsvText('id,name\r1,"a\rb"\r2,c\r').then(({ rows }) => {
       deepStrictEqual(rowsOf(rows), [[1, ["id", "name"]], [2, ["1", "a\rb"]], [4, ["2", "c"]]]);
     });
@@ -126,13 +125,11 @@ Deno.test("parseCsvText() removes the byte order mark from the first cell", asyn
 
 Deno.test(
   "parseCsvText() reads a quoted first header cell after a byte order mark",
-  { ignore: true },
   async () => {
-    // BUG: the BOM is stripped from the first cell only after papaparse has split the
-    // row; papaparse sees U+FEFF before the opening quote, so the quote is not taken as
-    // a quote and the first cell comes out as the literal text "\"id\"" (readTableRows
-    // then reports column.malformed). Exporters that quote every field and write a BOM
-    // produce exactly this (common practice).
+    // Regression: the BOM must go before papaparse splits the row; otherwise papaparse sees
+    // U+FEFF before the opening quote and the first cell comes out as the literal text
+    // "\"id\"". Exporters that quote every field and write a BOM produce exactly this
+    // (common practice).
     const { rows, problems } = await parseCsvText('\uFEFF"id","name"\n"1","a"\n');
     deepStrictEqual(rowsOf(rows), [[1, ["id", "name"]], [2, ["1", "a"]]]);
     deepStrictEqual(problems, []);
@@ -187,12 +184,10 @@ Deno.test("parseCsvChunks() keeps lines right when a quoted field spans chunks",
 
 Deno.test(
   "parseCsvChunks() gives the same cells however a CRLF file is chunked",
-  { ignore: true },
   async () => {
-    // BUG (minor): papaparse guesses the line ending from the first chunk only; when the
-    // first chunk holds no line break it falls back to "\n", and a CRLF file then keeps
-    // "\r" at the end of every last cell ("name\r", "y\r"). readTableRows trims cells,
-    // so ordinary tables survive, but the row cells depend on the chunking.
+    // Regression: papaparse guesses the line ending from its first chunk; parseCsvChunks
+    // holds text back until the first line break so that the cells of a CRLF file do not
+    // depend on the chunking (no "\r" left on the last cell).
     const whole = await collect(["id,name\r\n1,x\r\n2,y\r\n"]);
     const split = await collect(["id,na", "me\r\n1,x\r\n2,y\r\n"]);
     deepStrictEqual(rowsOf(split.rows), rowsOf(whole.rows));

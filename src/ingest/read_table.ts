@@ -191,7 +191,7 @@ export function readTableRows<U extends string, T>(
         "column.missing",
         "error",
         `Table ${file} lacks the required column "${name}"`,
-        { at: { file, line: header.line }, expected: `a column "${name}"` },
+        { at: { file, line: header.line, field: name }, expected: `a column "${name}"` },
       ));
       headerBroken = true;
     }

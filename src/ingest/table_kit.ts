@@ -49,7 +49,12 @@ export const numberText: z.ZodType<number, string> = z.string().transform((s, ct
     });
     return z.NEVER;
   }
-  return Number(s);
+  const v = Number(s);
+  if (!Number.isFinite(v)) {
+    ctx.issues.push({ code: "custom", input: s, message: "must be a finite number" });
+    return z.NEVER;
+  }
+  return v;
 });
 
 /** Quantity column schemas for a file: the number times the column's unit factor. */

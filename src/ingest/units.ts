@@ -13,6 +13,7 @@ function registerUnits(): void {
   unitsRegistered = true;
   math.createUnit({
     var: { definition: "1 VA", prefixes: "short", aliases: ["VAr"] },
+    kft: { definition: "1000 ft" },
   }, { override: false });
 }
 
@@ -82,9 +83,9 @@ export function normalizeUnitText(text: string): string {
     .replace(/(^|[^A-Za-z])([kMGm]?)var(?=$|[^A-Za-z])/gi, "$1$2var");
 }
 
-const DIMENSIONLESS: Record<"pu" | "%", Record<string, number>> = {
-  pu: { pu: 1, "p.u.": 1, "%": 0.01 },
-  "%": { "%": 1, pu: 100, "p.u.": 100 },
+const DIMENSIONLESS: Readonly<Record<"pu" | "%", ReadonlyMap<string, number>>> = {
+  pu: new Map([["pu", 1], ["p.u.", 1], ["%", 0.01]]),
+  "%": new Map([["%", 1], ["pu", 100], ["p.u.", 100]]),
 };
 
 /**
@@ -96,7 +97,7 @@ export function resolveUnit(unitText: string, internal: InternalUnit): UnitResol
   registerUnits();
   const text = normalizeUnitText(unitText);
   if (internal === "pu" || internal === "%") {
-    const factor = DIMENSIONLESS[internal][text];
+    const factor = DIMENSIONLESS[internal].get(text);
     if (factor === undefined) {
       return {
         ok: false,
@@ -106,11 +107,20 @@ export function resolveUnit(unitText: string, internal: InternalUnit): UnitResol
     }
     return { ok: true, factor };
   }
-  if (text in DIMENSIONLESS.pu) {
+  if (DIMENSIONLESS.pu.has(text)) {
     return {
       ok: false,
       code: "unit.dimension",
       message: `unit "${unitText}" is a ratio; expected a unit convertible to ${internal}`,
+    };
+  }
+  // A number in the unit text ("1e3 m", "2 km") would be dropped by mathjs: refuse it.
+  // Digits are allowed only as exponents ("mm^2").
+  if (/(^|[^^\d])\d/.test(text.replace(/\^-?\d+/g, ""))) {
+    return {
+      ok: false,
+      code: "unit.unknown",
+      message: `unit "${unitText}" holds a number; give the unit alone, e.g. [m]`,
     };
   }
   let parsed: math.Unit;

@@ -104,9 +104,9 @@ Deno.test("resolveUnit() converts every accepted unit to its internal unit", () 
   }
 });
 
-Deno.test("resolveUnit() converts kft (1000 ft) to km", { ignore: true }, () => {
-  // BUG: "kft" (kilofoot, common practice in North-American line data, e.g. ohm/kft) is
-  // rejected as unit.unknown because mathjs gives ft no prefixes.
+Deno.test("resolveUnit() converts kft (1000 ft) to km", () => {
+  // "kft" (kilofoot, common practice in North-American line data, e.g. ohm/kft) is added to
+  // mathjs, which gives ft no prefixes.
   // 1959: 1 kft = 1000 × 0.3048 m = 0.3048 km exactly.
   const cases = [
     { text: "kft", internal: "km" as const, factor: 0.3048 },
@@ -192,13 +192,9 @@ Deno.test("resolveUnit() rejects unknown and dimensionally wrong units with thei
 
 Deno.test(
   "resolveUnit() rejects names of JavaScript object properties as units",
-  { ignore: true },
   () => {
-    // BUG: the ratio table is looked up with `DIMENSIONLESS[internal][text]` and
-    // `text in DIMENSIONLESS.pu`, which see Object.prototype. resolveUnit("constructor",
-    // "pu") returns { ok: true, factor: Object } (a function, so every value becomes NaN
-    // and the row fails with a vague "expected number, received NaN");
-    // resolveUnit("toString", "km") says the text "is a ratio".
+    // Regression: the ratio table must not see Object.prototype: "constructor" is no ratio
+    // and "toString" is no unit.
     const cases: readonly FailureCase[] = [
       { text: "constructor", internal: "pu", code: "unit.dimension", why: "not a ratio" },
       { text: "hasOwnProperty", internal: "%", code: "unit.dimension", why: "not a ratio" },
@@ -219,13 +215,10 @@ Deno.test(
 
 Deno.test(
   "resolveUnit() does not drop a number written inside the unit text",
-  { ignore: true },
   () => {
-    // BUG: mathjs reads "2 km" and "1e3 m" as a value with a unit; resolveUnit builds
-    // math.unit(1, text), keeps the unit and silently drops the number, so a header
-    // `length [1e3 m]` is read as metres (factor 0.001) and `length [2 km]` as km.
-    // Either rejecting such text (unit.unknown) or honouring the number is acceptable;
-    // silently using a factor off by the written number is not.
+    // Regression: mathjs reads "2 km" and "1e3 m" as a value with a unit and would drop the
+    // number. Either rejecting such text (unit.unknown) or honouring the number is
+    // acceptable; silently using a factor off by the written number is not.
     const cases = [
       { text: "2 km", internal: "km" as const, honoured: 2 }, // 2 km per unit
       { text: "1e3 m", internal: "km" as const, honoured: 1 }, // 1e3 m = 1 km (SI-prefix)

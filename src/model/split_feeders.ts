@@ -348,7 +348,11 @@ export function splitFeeders(network: Network): SplitFeedersResult {
         }
       }
     }
-    const first = network.buses[g.index(members[0]!)!];
+    const real = members.map((m) => network.buses[g.index(m)!]).filter((b) => b !== undefined);
+    const first = real[0];
+    // Buses whose own rows were rejected are already reported; an island of only those
+    // would repeat the row errors.
+    if (first === undefined) return { busIds: members, nextTo };
     const beside = nextTo.length > 0
       ? ` (next to open ${nextTo.map((t) => `"${t.switchId}" of ${t.feederId}`).join(", ")})`
       : "";
@@ -358,7 +362,7 @@ export function splitFeeders(network: Network): SplitFeedersResult {
       `${members.length} bus(es) are not fed from any grid source with the switches in their normal state: ${
         members.slice(0, 8).map((m) => `"${m}"`).join(", ")
       }${members.length > 8 ? ", …" : ""}${beside}`,
-      first === undefined ? {} : { at: first.at },
+      { at: first.at },
     ));
     return { busIds: members, nextTo };
   });
