@@ -22,6 +22,7 @@ export const TABLES = {
   transformers: net.transformerTable,
   switches: net.switchTable,
   loads: dev.loadTable,
+  shunts: dev.shuntTable,
   generators: dev.generatorTable,
   reactiveCurves: dev.reactiveCurveTable,
   relayStages: dev.relayStageTable,

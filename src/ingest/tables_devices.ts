@@ -17,6 +17,7 @@ import {
   positive,
   required,
   withDefault,
+  yesNo,
 } from "./table_kit.ts";
 import { PHASES_ABC } from "../model/phases.ts";
 
@@ -94,6 +95,30 @@ export const loadTable = defineTable({
             message: `zip_z + zip_i + zip_p must equal 1 (found ${zz + zi + zp})`,
           });
         }
+      }
+    }),
+});
+
+export const shuntTable = defineTable({
+  file: "shunts.csv",
+  required: false,
+  key: ["id"],
+  busColumns: ["bus"],
+  units: { rated_reactive_power: "kvar" },
+  row: (q) =>
+    z.object({
+      id: required(idText),
+      bus: required(idText),
+      rated_reactive_power: required(q.rated_reactive_power),
+      in_service: withDefault(yesNo, true),
+      phases: withDefault(phasesText, PHASES_ABC),
+    }).superRefine((r, ctx) => {
+      if (r.rated_reactive_power === 0) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["rated_reactive_power"],
+          message: "must not be zero (positive for a capacitor, negative for a reactor)",
+        });
       }
     }),
 });

@@ -7,7 +7,7 @@
 import type { NetworkTables } from "../ingest/read_network.ts";
 import { TABLES } from "../ingest/read_network.ts";
 import { type Diagnostic, makeDiagnostic } from "./diagnostic.ts";
-import type { Generator, GridSource, Load, Network } from "./network.ts";
+import type { Generator, GridSource, Load, Network, Shunt } from "./network.ts";
 import { resolveLineTypes } from "./resolve_line_types.ts";
 import { groupFuseCurves, groupReactiveCurves, toGenerator, toLoad } from "./build_devices.ts";
 import { buildLines, buildSwitches, buildTransformers } from "./build_branches.ts";
@@ -104,6 +104,19 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
     if (bus !== undefined) loads.push(toLoad(row, bus.id, tables.loads.file));
   }
 
+  const shunts: Shunt[] = [];
+  for (const { value: r, line } of tables.shunts.rows) {
+    const bus = refBus(`Shunt "${r.id}"`, tables.shunts.file, line, "bus", r.bus, TABLES.shunts);
+    if (bus === undefined || !r.in_service) continue;
+    shunts.push({
+      id: r.id,
+      busId: bus.id,
+      qRatedKvar: r.rated_reactive_power,
+      phases: r.phases,
+      at: { file: tables.shunts.file, line },
+    });
+  }
+
   const curves = groupReactiveCurves(tables, diagnostics);
   const curveIds = new Set(curves.value.map((c) => c.id.toLowerCase()));
   const generators: Generator[] = [];
@@ -168,6 +181,7 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
       transformers,
       switches,
       loads,
+      shunts,
       generators,
       reactiveCurves: curves.value,
       relays,

@@ -183,6 +183,7 @@ export function compileFeeder(network: Network, topo: FeederTopology): FeederFor
     items.filter((x) => busIndex.has(x.busId.toLowerCase()));
   const loads = onFeeder(network.loads);
   const gens = onFeeder(network.generators);
+  const shunts = onFeeder(network.shunts);
   const curveIds = new Set(
     gens.flatMap((g) => ("curveId" in g.reactive ? [g.reactive.curveId.toLowerCase()] : [])),
   );
@@ -255,6 +256,12 @@ export function compileFeeder(network: Network, topo: FeederTopology): FeederFor
       phases: Uint8Array.from(loads, (l) => l.phases),
       delta: Uint8Array.from(loads, (l) => (l.connection === "delta" ? 1 : 0)),
       customers: Int32Array.from(loads, (l) => l.customers),
+    },
+    shunts: {
+      n: shunts.length,
+      ids: shunts.map((x) => x.id),
+      bus: Int32Array.from(shunts, (x) => bus(x.busId)),
+      qRatedKvar: Float64Array.from(shunts, (x) => x.qRatedKvar),
     },
     generators: {
       n: gens.length,

@@ -110,3 +110,20 @@ Deno.test("listTransferables() moves every typed array of a form without loss", 
   assertEquals(moved, copy);
   assertEquals(f1.vnKv.byteLength, 0); // detached: it was transferred, not copied
 });
+
+Deno.test("compileFeeder() places in-service shunts on their buses", async () => {
+  const files = {
+    ...TWO_FEEDERS,
+    "shunts.csv":
+      "id,bus,rated_reactive_power [Mvar],in_service\nC1,A1,0.3,yes\nC2,A2,0.2,no\nR1,B3,-100 ,yes\n"
+        .replace("-100 ", "-0.1"),
+  };
+  const r = await validateFleet(memorySource(files));
+  assertEquals(r.diagnostics.filter((d) => d.severity === "error"), []);
+  const [f1, f2] = r.value.forms;
+  assert(f1 && f2);
+  assertEquals(f1.shunts.ids, ["C1"]);
+  assertEquals([...f1.shunts.bus], [3]);
+  assertEquals([...f1.shunts.qRatedKvar], [300]);
+  assertEquals([...f2.shunts.qRatedKvar], [-100]);
+});

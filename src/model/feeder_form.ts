@@ -104,6 +104,14 @@ export interface FormLoads {
   readonly customers: Int32Array;
 }
 
+export interface FormShunts {
+  readonly n: number;
+  readonly ids: readonly string[];
+  readonly bus: Int32Array;
+  /** Reactive power injected at nominal voltage (positive for a capacitor). */
+  readonly qRatedKvar: Float64Array;
+}
+
 export interface FormGenerators {
   readonly n: number;
   readonly ids: readonly string[];
@@ -169,6 +177,7 @@ export interface FeederForm {
   readonly transformers: readonly FormTransformer[];
   readonly devices: readonly FormDevice[];
   readonly loads: FormLoads;
+  readonly shunts: FormShunts;
   readonly generators: FormGenerators;
   readonly reactiveCurves: readonly ReactiveCurve[];
   readonly openPoints: readonly OpenPoint[];
@@ -184,6 +193,7 @@ export function listTransferables(form: FeederForm): ArrayBuffer[] {
   };
   visit(form);
   visit(form.loads);
+  visit(form.shunts);
   visit(form.generators);
   return [...out];
 }

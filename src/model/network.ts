@@ -160,6 +160,16 @@ export interface Load {
   readonly at: SourceLocation;
 }
 
+/** A shunt capacitor (positive) or reactor (negative), constant impedance. */
+export interface Shunt {
+  readonly id: string;
+  readonly busId: string;
+  /** Reactive power injected at nominal voltage; positive for a capacitor. */
+  readonly qRatedKvar: number;
+  readonly phases: number;
+  readonly at: SourceLocation;
+}
+
 export type GeneratorKind = "converter" | "synchronous" | "induction";
 
 export type ReactiveMode =
@@ -259,6 +269,8 @@ export interface Network {
   readonly transformers: readonly Transformer[];
   readonly switches: readonly SwitchDevice[];
   readonly loads: readonly Load[];
+  /** In-service shunt capacitors and reactors. */
+  readonly shunts: readonly Shunt[];
   readonly generators: readonly Generator[];
   readonly reactiveCurves: readonly ReactiveCurve[];
   readonly relays: readonly Relay[];

@@ -210,16 +210,15 @@ export function splitFeeders(network: Network): SplitFeedersResult {
       ));
     }
     const posOf = new Map(ordered.busIds.map((b, i) => [b.toLowerCase(), i]));
-    for (const el of [...network.loads, ...network.generators]) {
+    for (const el of attachedElements(network)) {
       const i = posOf.get(el.busId.toLowerCase());
       if (i === undefined) continue;
       const available = ordered.busPhases[i]!;
       if (!phasesWithin(el.phases, available)) {
-        const kind = "peakPKw" in el ? "Load" : "Generator";
         flag(makeDiagnostic(
           "phase.upstream",
           "error",
-          `${kind} "${el.id}" has phases "${
+          `${el.kind} "${el.id}" has phases "${
             phaseLetters(el.phases)
           }" but bus "${el.busId}" has only "${phaseLetters(available)}"`,
           { at: locateField(network.headers, el.at, "phases") },
@@ -265,15 +264,13 @@ export function splitFeeders(network: Network): SplitFeedersResult {
     feeders.push(unorderedFeeder(edge.head!, [edge.head!], [edge.id], ids, comp, -2, [reason]));
   }
   // Loads and generators that no feeder reaches are never studied: say so.
-  for (const el of [...network.loads, ...network.generators]) {
+  for (const el of attachedElements(network)) {
     const v = g.index(el.busId);
     if (v === undefined || subOf[v]! < 0) continue;
     diagnostics.push(makeDiagnostic(
       "topology.no_feeder",
       "warning",
-      `${
-        "peakPKw" in el ? "Load" : "Generator"
-      } "${el.id}" at bus "${el.busId}" is reached from a grid ` +
+      `${el.kind} "${el.id}" at bus "${el.busId}" is reached from a grid ` +
         "source without passing a feeder-head device; it belongs to no feeder and is not studied",
       { at: locateField(network.headers, el.at, "bus") },
     ));
@@ -352,4 +349,13 @@ function unorderedFeeder(
     setAside: true,
     reasons: dedupeReasons(reasons),
   };
+}
+
+/** Loads, generators and shunts with a label for messages. */
+function attachedElements(network: Network) {
+  return [
+    ...network.loads.map((x) => ({ ...x, kind: "Load" })),
+    ...network.generators.map((x) => ({ ...x, kind: "Generator" })),
+    ...network.shunts.map((x) => ({ ...x, kind: "Shunt" })),
+  ];
 }
