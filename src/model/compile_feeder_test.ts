@@ -115,8 +115,7 @@ Deno.test("compileFeeder() places in-service shunts on their buses", async () =>
   const files = {
     ...TWO_FEEDERS,
     "shunts.csv":
-      "id,bus,rated_reactive_power [Mvar],in_service\nC1,A1,0.3,yes\nC2,A2,0.2,no\nR1,B3,-100 ,yes\n"
-        .replace("-100 ", "-0.1"),
+      "id,bus,rated_reactive_power [Mvar],in_service\nC1,A1,0.3,yes\nC2,A2,0.2,no\nR1,B3,-0.1,yes\n",
   };
   const r = await validateFleet(memorySource(files));
   assertEquals(r.diagnostics.filter((d) => d.severity === "error"), []);
