@@ -16,6 +16,7 @@ import {
 import type { PhaseMatrix } from "./line_impedance.ts";
 import type { Network, Transformer } from "./network.ts";
 import { phaseLetters } from "./phases.ts";
+import { transformerRatio } from "./transformer_ratio.ts";
 import type { EdgeRef, FeederTopology } from "./split_feeders.ts";
 
 const SQRT3 = Math.sqrt(3);
@@ -28,14 +29,6 @@ export function transformerImpedanceOhm(
   const z = (t.ukPercent / 100) * referredKv * referredKv / t.sRatedMva;
   const r = (t.loadLossKw / 1000) * referredKv * referredKv / (t.sRatedMva * t.sRatedMva);
   return { rOhm: r, xOhm: Math.sqrt(Math.max(z * z - r * r, 0)) };
-}
-
-/** Turns ratio of the HV winding including its tap position, kV. */
-function effectiveKv(t: Transformer): { hvKv: number; lvKv: number } {
-  const step = (t.tap.position - t.tap.neutral) * t.tap.stepPercent / 100;
-  return t.tap.side === "hv"
-    ? { hvKv: t.hvKv * (1 + step), lvKv: t.lvKv }
-    : { hvKv: t.hvKv, lvKv: t.lvKv * (1 + step) };
 }
 
 export function compileFeeder(network: Network, topo: FeederTopology): FeederForm {
@@ -106,11 +99,7 @@ export function compileFeeder(network: Network, topo: FeederTopology): FeederFor
       const hvIsFrom = ref.forward;
       const toKv = hvIsFrom ? t.lvKv : t.hvKv;
       const z = transformerImpedanceOhm(t, toKv);
-      const eff = effectiveKv(t);
-      const vnFrom = vnKv[from]!, vnTo = vnKv[to]!;
-      const nominal = hvIsFrom
-        ? (eff.hvKv / vnFrom) / (eff.lvKv / vnTo)
-        : (eff.lvKv / vnFrom) / (eff.hvKv / vnTo);
+      const nominal = transformerRatio({ ...t, hvIsFrom }, t.tap.position, vnKv[from]!, vnKv[to]!);
       branchKind[k] = BRANCH_TRANSFORMER;
       branchPhases[k] = 7;
       r1Ohm[k] = z.rOhm;
