@@ -163,7 +163,7 @@ const presetSchema = z.string().transform((name, ctx): VoltageBand => {
   ctx.issues.push({
     code: "custom",
     input: name,
-    params: { code: "config.preset" },
+    params: { code: "config.preset", expected: `one of ${quoteList(PRESET_NAMES)}` },
     message: `is not a known voltage band preset; expected one of ${quoteList(PRESET_NAMES)}`,
   });
   return z.NEVER;
@@ -200,6 +200,7 @@ const casesSchema = z.array(caseSchema).min(1, { error: "must list at least one 
           code: "custom",
           path: [i, "id"],
           input: id,
+          params: { expected: "an id that no other case uses" },
           message: `is already used by cases[${first}] (ids are compared ignoring case)`,
         });
       }
@@ -318,7 +319,7 @@ function ruleFor(iss: z.core.$ZodRawIssue): string | undefined {
       if (iss.input === undefined) return "is required";
       if (iss.expected === "int") return "must be a whole number";
       if (typeof iss.input === "number") return "must be a finite number";
-      return `must be ${article(iss.expected)}`;
+      return `must be ${article(iss.expected)}, not ${article(jsonType(iss.input))}`;
     case "too_small":
     case "too_big": {
       const small = iss.code === "too_small";
@@ -337,8 +338,21 @@ function ruleFor(iss: z.core.$ZodRawIssue): string | undefined {
   }
 }
 
-function article(expected: string): string {
-  return `${/^[aeiou]/.test(expected) ? "an" : "a"} ${expected}`;
+function article(type: string): string {
+  return type === "null" ? "null" : `${/^[aeiou]/.test(type) ? "an" : "a"} ${type}`;
+}
+
+function jsonType(value: unknown): string {
+  return value === null ? "null" : Array.isArray(value) ? "array" : typeof value;
+}
+
+/** What was expected, in words, for the `expected` field of a diagnostic. */
+function expectedFor(issue: z.core.$ZodIssue): string {
+  if (issue.code === "invalid_type") {
+    return issue.expected === "int" ? "a whole number" : article(issue.expected);
+  }
+  const given = issue.code === "custom" ? issue.params?.["expected"] : undefined;
+  return typeof given === "string" ? given : issue.message.replace(/^(must be|must|is) /, "");
 }
 
 function quoteList(names: readonly string[]): string {
@@ -398,7 +412,7 @@ function foundText(body: string, node: Node): string {
 
 function issueDiagnostic(root: Node, body: string, f: FlatIssue, locate: Locate): Diagnostic {
   const { node, exact } = nearestNode(root, f.path);
-  const what = f.path.length === 0 ? "The config" : pathText(f.path);
+  const what = f.path.length === 0 ? "the top level" : pathText(f.path);
   const found = exact ? foundText(body, node) : undefined;
   const rule = f.issue.message;
   const preset = f.issue.code === "custom" && f.issue.params?.["code"] === "config.preset";
@@ -409,7 +423,7 @@ function issueDiagnostic(root: Node, body: string, f: FlatIssue, locate: Locate)
     {
       at: locate(node.offset, f.path),
       found,
-      expected: rule.replace(/^(must be|must|is) /, ""),
+      expected: expectedFor(f.issue),
     },
   );
 }

@@ -1,0 +1,212 @@
+/**
+ * Study of one feeder: every case's load flow, the companion no-generation solves the
+ * voltage-change check needs, and the checks. Returns plain data for the report stage.
+ */
+import type { Diagnostic } from "../model/diagnostic.ts";
+import { BRANCH_LINE, BRANCH_SWITCH, type FeederForm } from "../model/feeder_form.ts";
+import type { LoadFlowCase, LoadFlowOptions, LoadFlowResult } from "../solve/load_flow_types.ts";
+import { prepareLoadFlow } from "../solve/prepare_load_flow.ts";
+import { solveLoadFlow } from "../solve/solve_load_flow.ts";
+import type { CheckLimits, CheckSelection } from "../checks/check_options.ts";
+import { compareFindings, type Finding } from "../checks/finding.ts";
+import { checkVoltageBand } from "../checks/check_voltage_band.ts";
+import { checkVoltageChange, voltageChangePercent } from "../checks/check_voltage_change.ts";
+import { computeVoltageChangeParts } from "../checks/voltage_change_parts.ts";
+import { branchLoadingPercent, checkFlows } from "../checks/check_flows.ts";
+
+export interface StudyCase extends LoadFlowCase {
+  readonly label?: string;
+}
+
+export interface StudySettings {
+  readonly cases: readonly StudyCase[];
+  readonly limits: CheckLimits;
+  readonly checks: CheckSelection;
+  readonly solver: LoadFlowOptions;
+  readonly output: { readonly busResults: boolean; readonly branchResults: boolean };
+}
+
+export interface BusRow {
+  readonly id: string;
+  readonly vnKv: number;
+  readonly distanceKm: number;
+  readonly vPu: number;
+  readonly angleDeg: number;
+  /** Exact change caused by generation, %, and the formula's two parts, % (null without DG). */
+  readonly dgChangePercent: number | null;
+  readonly rpPercent: number | null;
+  readonly xqPercent: number | null;
+}
+
+export interface BranchRow {
+  readonly id: string;
+  readonly kind: "line" | "transformer" | "switch";
+  readonly from: string;
+  readonly to: string;
+  readonly pFromKw: number;
+  readonly qFromKvar: number;
+  readonly pToKw: number;
+  readonly qToKvar: number;
+  readonly iA: number;
+  readonly loadingPercent: number;
+}
+
+export interface CaseOutcome {
+  readonly caseId: string;
+  readonly label: string | null;
+  readonly converged: boolean;
+  readonly iterations: number;
+  readonly residualPu: number;
+  readonly demandKw: number;
+  readonly generationKw: number;
+  readonly generationKvar: number;
+  readonly sourcePKw: number;
+  readonly sourceQKvar: number;
+  readonly lossesKw: number;
+  readonly lossesKvar: number;
+  readonly vMinPu: number;
+  readonly vMaxPu: number;
+  readonly maxLoadingPercent: number;
+  /** Largest voltage change caused by generation, % (null for a case without generation). */
+  readonly maxDgChangePercent: number | null;
+  /** Reactive power the substation supplies more because of the generation, kvar. */
+  readonly sourceQShiftKvar: number | null;
+  readonly taps: readonly { readonly transformer: string; readonly position: number }[];
+  readonly buses?: readonly BusRow[];
+  readonly branches?: readonly BranchRow[];
+}
+
+export interface FeederStudy {
+  readonly feederId: string;
+  readonly status: "studied" | "failed";
+  readonly cases: readonly CaseOutcome[];
+  readonly findings: readonly Finding[];
+  readonly diagnostics: readonly Diagnostic[];
+}
+
+const round = (v: number, digits: number) => {
+  const f = 10 ** digits;
+  const r = Math.round(v * f) / f;
+  return Object.is(r, -0) ? 0 : r;
+};
+
+export function studyFeeder(form: FeederForm, settings: StudySettings): FeederStudy {
+  const prepared = prepareLoadFlow(form);
+  const diagnostics: Diagnostic[] = [];
+  const solved = new Map<string, LoadFlowResult>();
+  const solve = (c: LoadFlowCase): LoadFlowResult => {
+    const key = `${c.demand}|${c.demandScale}|${c.generationScale}`;
+    const hit = solved.get(key);
+    if (hit) return hit.caseId === c.id ? hit : { ...hit, caseId: c.id };
+    const r = solveLoadFlow(form, c, settings.solver, prepared);
+    diagnostics.push(...r.diagnostics);
+    solved.set(key, r.value);
+    return r.value;
+  };
+  const findings: Finding[] = [];
+  const cases: CaseOutcome[] = [];
+  for (const c of settings.cases) {
+    const res = solve(c);
+    const outcome: { -readonly [K in keyof CaseOutcome]: CaseOutcome[K] } = {
+      caseId: c.id,
+      label: c.label ?? null,
+      converged: res.converged,
+      iterations: res.iterations,
+      residualPu: res.residualPu,
+      demandKw: round(sum(res.loadPKw), 3),
+      generationKw: round(sum(res.genPKw), 3),
+      generationKvar: round(sum(res.genQKvar), 3),
+      sourcePKw: round(res.sourcePKw, 3),
+      sourceQKvar: round(res.sourceQKvar, 3),
+      lossesKw: round(res.lossesKw, 3),
+      lossesKvar: round(res.lossesKvar, 3),
+      vMinPu: round(Math.min(...res.vMagPu), 6),
+      vMaxPu: round(Math.max(...res.vMagPu), 6),
+      maxLoadingPercent: 0,
+      maxDgChangePercent: null,
+      sourceQShiftKvar: null,
+      taps: form.transformers.map((t, i) => ({
+        transformer: t.id,
+        position: res.tapPositions[i]!,
+      })),
+    };
+    if (!res.converged) {
+      cases.push(outcome);
+      continue;
+    }
+    const loading = branchLoadingPercent(form, res);
+    outcome.maxLoadingPercent = round(Math.max(0, ...loading), 3);
+    if (settings.checks.voltageBand) findings.push(...checkVoltageBand(form, res, settings.limits));
+    findings.push(...checkFlows(form, res, settings.limits, settings.checks));
+
+    let change: Float64Array | null = null;
+    let parts: ReturnType<typeof computeVoltageChangeParts> | null = null;
+    if (c.generationScale > 0 && form.generators.n > 0) {
+      const base = solve({
+        id: `${c.id} without generation`,
+        demand: c.demand,
+        demandScale: c.demandScale,
+        generationScale: 0,
+      });
+      if (base.converged) {
+        change = voltageChangePercent(res, base);
+        parts = computeVoltageChangeParts(
+          form,
+          prepared.zRe,
+          prepared.zIm,
+          res.genPKw,
+          res.genQKvar,
+        );
+        outcome.maxDgChangePercent = round(Math.max(...change.map(Math.abs)), 4);
+        outcome.sourceQShiftKvar = round(res.sourceQKvar - base.sourceQKvar, 3);
+        if (settings.checks.voltageChange) {
+          findings.push(...checkVoltageChange(form, c.id, change, parts, settings.limits));
+        }
+      }
+    }
+    if (settings.output.busResults) {
+      outcome.buses = form.busIds.map((id, k) => ({
+        id,
+        vnKv: form.vnKv[k]!,
+        distanceKm: round(form.distanceKm[k]!, 4),
+        vPu: round(res.vMagPu[k]!, 6),
+        angleDeg: round(Math.atan2(res.vImPu[k]!, res.vRePu[k]!) * 180 / Math.PI, 4),
+        dgChangePercent: change === null ? null : round(change[k]!, 4),
+        rpPercent: parts === null ? null : round(100 * parts.rpPu[k]!, 4),
+        xqPercent: parts === null ? null : round(100 * parts.xqPu[k]!, 4),
+      }));
+    }
+    if (settings.output.branchResults) {
+      outcome.branches = form.branchIds.map((id, b) => ({
+        id,
+        kind: form.branchKind[b] === BRANCH_LINE
+          ? "line"
+          : form.branchKind[b] === BRANCH_SWITCH
+          ? "switch"
+          : "transformer",
+        from: form.busIds[form.branchFrom[b]!]!,
+        to: form.busIds[form.branchTo[b]!]!,
+        pFromKw: round(res.pFromKw[b]!, 3),
+        qFromKvar: round(res.qFromKvar[b]!, 3),
+        pToKw: round(res.pToKw[b]!, 3),
+        qToKvar: round(res.qToKvar[b]!, 3),
+        iA: round(res.iA[b]!, 3),
+        loadingPercent: round(loading[b]!, 3),
+      }));
+    }
+    cases.push(outcome);
+  }
+  return {
+    feederId: form.feederId,
+    status: cases.every((c) => c.converged) ? "studied" : "failed",
+    cases,
+    findings: findings.sort(compareFindings),
+    diagnostics,
+  };
+}
+
+function sum(xs: Float64Array): number {
+  let s = 0;
+  for (const x of xs) s += x;
+  return s;
+}
