@@ -103,8 +103,8 @@ export function checkFlows(
         limit: limits.losses.warnPercent,
         unit: "%",
         message: `Losses are ${result.lossesKw.toFixed(1)} kW, ${share.toFixed(1)} % of the ${
-          delivered.toFixed(0)
-        } kW delivered`,
+          fedIn.toFixed(0)
+        } kW fed in (source import plus generation)`,
       });
     }
   }

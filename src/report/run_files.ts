@@ -1,0 +1,129 @@
+/**
+ * Contents of the files of a study run, as text. The CLI writes them; nothing here touches
+ * the file system. Every file but run.json is deterministic: same input, same bytes.
+ */
+import Papa from "papaparse";
+import type { Diagnostic } from "../model/diagnostic.ts";
+import type { Finding } from "../checks/finding.ts";
+import type { FeederSummary } from "../model/summarize_feeder.ts";
+import type { FeederStudy } from "../pipeline/study_feeder.ts";
+
+export const CAUTION =
+  "Screening study: verify results with a licensed engineer and against local codes before acting.";
+
+function csv(
+  columns: readonly string[],
+  rows: readonly (readonly (string | number | null)[])[],
+): string {
+  return Papa.unparse({ fields: [...columns], data: rows.map((r) => [...r]) }, { newline: "\n" }) +
+    "\n";
+}
+
+export function findingsCsv(findings: readonly Finding[]): string {
+  return csv(
+    [
+      "feeder",
+      "case",
+      "severity",
+      "code",
+      "place_kind",
+      "place",
+      "value",
+      "limit",
+      "unit",
+      "message",
+    ],
+    findings.map((f) => [
+      f.feederId,
+      f.caseId,
+      f.severity,
+      f.code,
+      f.where.kind,
+      f.where.id,
+      roundForCsv(f.value),
+      roundForCsv(f.limit),
+      f.unit,
+      f.message,
+    ]),
+  );
+}
+
+export function diagnosticsCsv(diagnostics: readonly Diagnostic[]): string {
+  return csv(
+    [
+      "severity",
+      "code",
+      "file",
+      "line",
+      "column",
+      "field",
+      "feeder",
+      "message",
+      "found",
+      "expected",
+    ],
+    diagnostics.map((d) => [
+      d.severity,
+      d.code,
+      d.at?.file ?? "",
+      d.at?.line ?? "",
+      d.at?.column ?? "",
+      d.at?.field ?? "",
+      d.feederId ?? "",
+      d.message,
+      d.found ?? "",
+      d.expected ?? "",
+    ]),
+  );
+}
+
+function roundForCsv(v: number): number {
+  return Math.round(v * 1e6) / 1e6;
+}
+
+/** The per-feeder result file: key figures, every case's buses and branches, findings. */
+export function feederJson(summary: FeederSummary, study: FeederStudy | undefined): string {
+  return JSON.stringify(
+    {
+      feederId: summary.feederId,
+      status: study?.status ?? summary.status,
+      summary,
+      cases: study?.cases ?? [],
+      findings: study?.findings ?? [],
+      diagnostics: study?.diagnostics ?? [],
+      caution: CAUTION,
+    },
+    null,
+    2,
+  ) + "\n";
+}
+
+/** A file name for a feeder id: characters outside [A-Za-z0-9._-] become "_". */
+export function feederFileName(feederId: string): string {
+  return `${feederId.replace(/[^A-Za-z0-9._-]/g, "_")}.json`;
+}
+
+export interface RunRecord {
+  readonly tool: string;
+  readonly version: string;
+  readonly command: string;
+  readonly network: string;
+  readonly pipeline: string;
+  readonly pipelineName: string | null;
+  readonly inputHash: string;
+  readonly configHash: string;
+  readonly startedAt: string;
+  readonly finishedAt: string;
+  readonly counts: {
+    readonly feeders: number;
+    readonly studied: number;
+    readonly failed: number;
+    readonly setAside: number;
+    readonly findings: Readonly<Record<string, number>>;
+    readonly diagnostics: Readonly<Record<string, number>>;
+  };
+}
+
+export function runJson(record: RunRecord): string {
+  return JSON.stringify({ ...record, caution: CAUTION }, null, 2) + "\n";
+}
