@@ -9,7 +9,10 @@ import { Command, CommanderError } from "@commander-js/extra-typings";
 import { folderSource } from "../ingest/read_network.ts";
 import { validateFleet } from "../pipeline/validate_fleet.ts";
 import { choosePaint } from "./paint.ts";
-import { formatValidation } from "./format_validation.ts";
+import { formatDiagnostic, formatValidation } from "./format_validation.ts";
+import { loadPipelineConfig } from "../pipeline/load_pipeline_config.ts";
+import { runStudy } from "./run_study.ts";
+import { formatStudySummary } from "./format_study.ts";
 import { VERSION } from "./version.ts";
 
 export const EXIT_CLEAN = 0;
@@ -63,6 +66,36 @@ function buildProgram(setExit: (code: number) => void) {
       }
       const failed = result.diagnostics.some((d) => d.severity === "error") ||
         fleet.feeders.some((f) => f.status === "set_aside");
+      setExit(failed ? EXIT_SET_ASIDE : EXIT_CLEAN);
+    });
+  program.command("study")
+    .description(
+      "Study every valid feeder of a network folder: load flow for each case of the pipeline, " +
+        "voltage, voltage-change, thermal, reverse-power and loss checks. Writes run.json, " +
+        "findings.csv, diagnostics.csv and feeders/<id>.json into the output folder.",
+    )
+    .argument("<network-dir>", "folder of network tables (see docs/network-format.md)")
+    .option(
+      "--pipeline <file>",
+      "pipeline configuration (see docs/pipeline.md)",
+      "pipelines/nightly.json",
+    )
+    .option("--out <dir>", "run folder to write", "reports/latest")
+    .action(async (dir, options) => {
+      await checkDirectory(dir);
+      const config = await loadPipelineConfig(options.pipeline);
+      const paint = choosePaint(Deno.stdout.isTerminal(), Deno.env.get("NO_COLOR"));
+      const errPaint = choosePaint(Deno.stderr.isTerminal(), Deno.env.get("NO_COLOR"));
+      for (const d of config.diagnostics) console.error(formatDiagnostic(d, errPaint));
+      if (config.value === undefined) {
+        throw new UsageError(
+          `Pipeline config "${options.pipeline}" has errors; nothing was studied`,
+        );
+      }
+      const run = await runStudy(dir, options.pipeline, config.value, options.out);
+      console.log(formatStudySummary(run, options.out, paint));
+      const failed = run.record.counts.failed > 0 || run.record.counts.setAside > 0 ||
+        run.diagnostics.some((d) => d.severity === "error");
       setExit(failed ? EXIT_SET_ASIDE : EXIT_CLEAN);
     });
   return program;

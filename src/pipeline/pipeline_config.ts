@@ -280,7 +280,7 @@ export function parsePipelineConfig(
   const locate = locator(body, file);
   const errors: ParseError[] = [];
   const root = parseTree(body, errors, { allowTrailingComma: true, disallowComments: false });
-  const diagnostics = errors.map((e) => syntaxDiagnostic(body, e, locate));
+  const diagnostics = syntaxDiagnostics(body, errors, locate);
   if (root === undefined || errors.length > 0) return { value: undefined, diagnostics };
   diagnostics.push(...duplicateKeys(root, locate));
 
@@ -478,36 +478,60 @@ function duplicateKeys(root: Node, locate: Locate): Diagnostic[] {
   return out;
 }
 
-const SYNTAX_WORDS: Readonly<Record<string, string>> = {
-  InvalidSymbol: "unexpected character",
-  InvalidNumberFormat: "malformed number",
-  PropertyNameExpected: "expected a key in double quotes",
-  ValueExpected: "expected a value",
-  ColonExpected: "expected a colon after the key",
-  CommaExpected: "expected a comma",
-  CloseBraceExpected: "expected a closing brace",
-  CloseBracketExpected: "expected a closing bracket",
-  EndOfFileExpected: "expected the end of the file",
-  InvalidCommentToken: "malformed comment",
-  UnexpectedEndOfComment: "comment not closed",
-  UnexpectedEndOfString: "string not closed",
-  UnexpectedEndOfNumber: "number ends too early",
-  InvalidUnicode: "malformed unicode escape",
-  InvalidEscapeCharacter: "unknown escape in a string",
-  InvalidCharacter: "control character in a string",
+/** What each JSON syntax error means, and what was expected instead. */
+const SYNTAX_WORDS: Readonly<Record<string, readonly [string, string]>> = {
+  InvalidSymbol: ["unexpected character", "a JSON value, key or punctuation"],
+  InvalidNumberFormat: ["malformed number", "a JSON number such as 0.5 or 1e-9"],
+  PropertyNameExpected: ["expected a key in double quotes", "a key in double quotes"],
+  ValueExpected: ["expected a value", "a value"],
+  ColonExpected: ["expected a colon after the key", "a colon"],
+  CommaExpected: ["expected a comma", "a comma"],
+  CloseBraceExpected: ["expected a closing brace", "}"],
+  CloseBracketExpected: ["expected a closing bracket", "]"],
+  EndOfFileExpected: ["expected the end of the file", "the end of the file"],
+  InvalidCommentToken: ["malformed comment", "a // or /* */ comment"],
+  UnexpectedEndOfComment: ["comment not closed", "*/ to close the comment"],
+  UnexpectedEndOfString: ["string not closed", "a closing double quote"],
+  UnexpectedEndOfNumber: ["number ends too early", "digits to end the number"],
+  InvalidUnicode: ["malformed unicode escape", "\\u and four hex digits"],
+  InvalidEscapeCharacter: [
+    "unknown escape in a string",
+    'one of \\" \\\\ \\/ \\b \\f \\n \\r \\t \\u',
+  ],
+  InvalidCharacter: ["control character in a string", "an escape such as \\t instead"],
 };
 
-function syntaxDiagnostic(body: string, e: ParseError, locate: Locate): Diagnostic {
-  const words = SYNTAX_WORDS[printParseErrorCode(e.error)] ?? "malformed JSON";
-  const found = e.offset >= body.length
-    ? "end of file"
-    : body.slice(e.offset, e.offset + Math.max(e.length, 1));
-  return makeDiagnostic(
-    "config.syntax",
-    "error",
-    `Cannot read pipeline config: ${words}, found "${found}"`,
-    { at: locate(e.offset, []), found, expected: words.replace(/^expected /, "") },
-  );
+/**
+ * The syntax errors worth reporting: after an error the parser guesses, so a later error on
+ * the same line, or inside the span of the previous one (an unclosed comment or string runs
+ * to the end), is left out as an echo of it.
+ */
+function syntaxDiagnostics(
+  body: string,
+  errors: readonly ParseError[],
+  locate: Locate,
+): Diagnostic[] {
+  const out: Diagnostic[] = [];
+  let lastLine = 0, lastEnd = -1;
+  for (const e of errors) {
+    const at = locate(e.offset, []);
+    if (at.line === lastLine || e.offset <= lastEnd) continue;
+    lastLine = at.line ?? 0;
+    lastEnd = e.offset + e.length;
+    const [words, expected] = SYNTAX_WORDS[printParseErrorCode(e.error)] ??
+      ["malformed JSON", "JSON with comments"];
+    const end = e.offset >= body.length;
+    const span = body.slice(e.offset, e.offset + Math.max(e.length, 1)).split(/\r\n|\r|\n/)[0]!;
+    const found = end ? "end of file" : span.length > 40 ? `${span.slice(0, 39)}…` : span;
+    const shown = end ? "the end of the file" : found.startsWith('"') ? found : `"${found}"`;
+    out.push(makeDiagnostic(
+      "config.syntax",
+      "error",
+      `Cannot read pipeline config: ${words}, found ${shown}`,
+      { at, found, expected },
+    ));
+  }
+  return out;
 }
 
 /** Offset → 1-based line and character column (code points; CR, LF and CRLF end lines). */

@@ -15,7 +15,7 @@ import { computeVoltageChangeParts } from "../checks/voltage_change_parts.ts";
 import { branchLoadingPercent, checkFlows } from "../checks/check_flows.ts";
 
 export interface StudyCase extends LoadFlowCase {
-  readonly label?: string;
+  readonly label?: string | undefined;
 }
 
 export interface StudySettings {
