@@ -1,0 +1,43 @@
+/**
+ * The nightly pipeline on the demo fleet (invented data): the long rural PV feeder shows
+ * the voltage change caused by its generation in the minimum-demand case, and a lightly
+ * loaded urban feeder shows no voltage finding at all.
+ */
+import { deepStrictEqual as assertEquals, ok as assert } from "node:assert/strict";
+import { folderSource } from "../src/ingest/read_network.ts";
+import { validateFleet } from "../src/pipeline/validate_fleet.ts";
+import { loadPipelineConfig } from "../src/pipeline/load_pipeline_config.ts";
+import { studyFeeder } from "../src/pipeline/study_feeder.ts";
+
+const config = (await loadPipelineConfig("pipelines/nightly.json")).value!;
+const fleet = await validateFleet(folderSource("data-samples/norvessa"));
+const studies = new Map(fleet.value.forms.map((f) => [f.feederId, studyFeeder(f, config)]));
+
+Deno.test("studyFeeder() solves every case of every demo feeder", () => {
+  for (const [id, s] of studies) {
+    assertEquals(s.status, "studied", id);
+    assertEquals(s.cases.map((c) => c.caseId), config.cases.map((c) => c.id));
+  }
+});
+
+Deno.test("studyFeeder() finds generation-caused voltage change on the rural PV feeder at minimum demand", () => {
+  const rural = studies.get("MOR-L1")!;
+  const rise = rural.findings.filter((f) =>
+    f.code === "voltage.dg_change" || f.code === "voltage.above_band"
+  );
+  assert(rise.length > 0);
+  assert(rise.every((f) => f.caseId === "min-full-dg"));
+  // The voltage-change parts are reported beside the exact value for every bus.
+  const min = rural.cases.find((c) => c.caseId === "min-full-dg")!;
+  assert(
+    min.buses!.every((b) =>
+      b.dgChangePercent !== null && b.rpPercent !== null && b.xqPercent !== null
+    ),
+  );
+  assert(min.sourceQShiftKvar !== null);
+});
+
+Deno.test("studyFeeder() finds no voltage problem on a lightly loaded urban feeder", () => {
+  const urban = studies.get("CTY-K3")!;
+  assertEquals(urban.findings.filter((f) => f.code.startsWith("voltage.")), []);
+});
