@@ -51,7 +51,7 @@ export interface PipelineLimits {
   readonly thermal: { readonly limitPercent: number; readonly warnPercent: number };
   /** Reverse active power above which a finding is raised, kW. */
   readonly reversePower: { readonly headLimitKw: number; readonly transformerLimitKw: number };
-  /** Losses as a share of the power delivered to loads, %. */
+  /** Losses as a share of the power fed in (source import plus generation), %. */
   readonly losses: { readonly warnPercent: number };
 }
 
