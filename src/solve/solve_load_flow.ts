@@ -20,7 +20,7 @@ import {
   prepareLoadFlow,
   pvReactanceInverse,
 } from "./prepare_load_flow.ts";
-import { sweepBalanced } from "./sweep_kernel.ts";
+import { ratioFactors, sweepBalanced } from "./sweep_kernel.ts";
 import { generatorSetpoints, Q_VOLT_VAR, Q_VOLTAGE_CONTROL } from "./_generator_setpoints.ts";
 import { interpolateCurve } from "./interpolate_curve.ts";
 
@@ -82,6 +82,7 @@ export function solveLoadFlow(
 
   // Working arrays, allocated once per case.
   const aRe = Float64Array.from(pre.aRe), aIm = Float64Array.from(pre.aIm);
+  const gRe = new Float64Array(nb), gIm = new Float64Array(nb), hasRatio = new Uint8Array(nb);
   const vRe = new Float64Array(n), vIm = new Float64Array(n);
   const jRe = new Float64Array(nb), jIm = new Float64Array(nb);
   const accRe = new Float64Array(n), accIm = new Float64Array(n);
@@ -105,6 +106,7 @@ export function solveLoadFlow(
     aIm[b] = r * Math.sin(th);
   };
   form.transformers.forEach((_, ti) => setRatio(ti));
+  ratioFactors(aRe, aIm, gRe, gIm, hasRatio);
 
   // Flat start rotated through the transformers: a sweep with no current.
   const th0 = form.source.angleDeg * Math.PI / 180;
@@ -115,8 +117,9 @@ export function solveLoadFlow(
     form.parent,
     pre.zRe,
     pre.zIm,
-    aRe,
-    aIm,
+    gRe,
+    gIm,
+    hasRatio,
     drawRe,
     drawIm,
     vRe,
@@ -173,8 +176,9 @@ export function solveLoadFlow(
         form.parent,
         pre.zRe,
         pre.zIm,
-        aRe,
-        aIm,
+        gRe,
+        gIm,
+        hasRatio,
         drawRe,
         drawIm,
         vRe,
@@ -295,6 +299,7 @@ export function solveLoadFlow(
       }
       taps[ti] = next;
       setRatio(ti);
+      ratioFactors(aRe, aIm, gRe, gIm, hasRatio);
       moved = true;
     }
     if (!moved) break;
