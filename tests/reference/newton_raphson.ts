@@ -221,7 +221,9 @@ export function solveReferenceNewton(
   const mismatch = new Float64Array(m);
   /** Node voltages, node currents I = Y·V and the mismatch vector; returns max |F|. */
   const evaluate = (): number => {
-    for (let k = 0; k < n; k++) vr[k] = vm[k]! * Math.cos(va[k]!), vi[k] = vm[k]! * Math.sin(va[k]!);
+    for (let k = 0; k < n; k++) {
+      vr[k] = vm[k]! * Math.cos(va[k]!), vi[k] = vm[k]! * Math.sin(va[k]!);
+    }
     let worst = 0;
     for (let k = 0; k < n; k++) {
       let sr = 0, si = 0;
@@ -263,7 +265,6 @@ export function solveReferenceNewton(
         const colA = angleIndex[k]!, colM = magIndex[k]!;
         if (colA < 0 && colM < 0) continue;
         const g = G[i * n + k]!, b = B[i * n + k]!;
-        if (g === 0 && b === 0 && k !== i) continue;
         // c = V_i·conj(Y_ik·V_k)
         const yvr = g * vr[k]! - b * vi[k]!, yvi = g * vi[k]! + b * vr[k]!;
         const cr = vr[i]! * yvr + vi[i]! * yvi, ci = vi[i]! * yvr - vr[i]! * yvi;
@@ -313,7 +314,10 @@ export function solveReferenceNewton(
     }
     previousStep = stepPu;
   }
-  if (m === 0) converged = true, stepPu = 0;
+  if (m === 0) {
+    converged = true;
+    stepPu = 0;
+  }
 
   // Results per form bus, branch, load, generator and shunt.
   const vRePu = new Float64Array(form.nBus), vImPu = new Float64Array(form.nBus);
