@@ -82,3 +82,38 @@ Deno.test("choosePaint() colours only a terminal without NO_COLOR (no-color.org 
     assertEquals(paint.red("x") !== "x", coloured);
   }
 });
+
+Deno.test("runCli() study writes a run folder and exits 0 on the clean sample fleet", async () => {
+  const out = "reports/.test-tmp/cli-study";
+  try {
+    const { code, out: text } = await capture(["study", "data-samples/norvessa", "--out", out]);
+    assertEquals(code, EXIT_CLEAN);
+    assert(text.includes("Studied 13 of 13 feeders"), text);
+    assert(text.includes("voltage.dg_change"), "the rural feeder's finding is summarised");
+    const findings = await Deno.readTextFile(`${out}/findings.csv`);
+    assert(findings.startsWith("feeder,case,severity,code,"));
+  } finally {
+    await Deno.remove(out, { recursive: true }).catch(() => {});
+  }
+});
+
+Deno.test("runCli() study exits 2 with located errors for a bad pipeline file", async () => {
+  const bad = "reports/.test-tmp/bad-pipeline.json";
+  await Deno.mkdir("reports/.test-tmp", { recursive: true });
+  await Deno.writeTextFile(bad, '{ "cases": [ { "id": "x", "demand": "often" } ] }\n');
+  try {
+    const { code, err } = await capture([
+      "study",
+      "data-samples/norvessa",
+      "--pipeline",
+      bad,
+      "--out",
+      "reports/.test-tmp/never",
+    ]);
+    assertEquals(code, EXIT_USAGE);
+    assert(/bad-pipeline\.json:1:\d+: error config\.invalid/.test(err), err);
+    assert(!/\bat .*\.ts:\d+/.test(err));
+  } finally {
+    await Deno.remove(bad).catch(() => {});
+  }
+});
