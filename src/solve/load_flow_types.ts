@@ -10,6 +10,11 @@
  * Loads draw S = S₀·(z·|V|² + i·|V| + p); generators inject P and the Q their reactive mode
  * gives; shunt capacitors inject Q = Q_rated·|V|². The source bus (bus 0) is the slack at
  * the grid source's set-point.
+ *
+ * Generation scale: 0 takes every generator out of service — no P, no Q, no voltage
+ * control (the "without generation" case). Above 0, P = pKw·scale (at most the rating);
+ * fixed power factor gives ∓P·tan φ, fixed Q its set-point unscaled, cos φ(P) its curve at
+ * P/S_rated; volt-var and voltage control are solved, limited to ±√(S_rated² − P²).
  */
 
 /** One study case: which demand, scaled, and how much of the generation. */
