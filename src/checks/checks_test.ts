@@ -88,7 +88,9 @@ Deno.test("computeVoltageChangeParts() equals the sum over generators of their c
 Deno.test("branchLoadingPercent() is I / ampacity with I = S / (√3·U) by hand", async () => {
   // Load 12.5 MW + 4 Mvar at B2 behind a short line: |I| = |S|/(√3·|U|·Un) with |U| from the
   // load flow, about 95 % of the 400 A ampacity.
-  const form = await formOf(twoBusFeeder({ rOhm: 0.2, xOhm: 0.2, loadPKw: 12500, loadQKvar: 4000 }));
+  const form = await formOf(
+    twoBusFeeder({ rOhm: 0.2, xOhm: 0.2, loadPKw: 12500, loadQKvar: 4000 }),
+  );
   const res = solveLoadFlow(form, PEAK, TIGHT).value;
   const b2 = form.busIds.indexOf("B2");
   const iA = Math.hypot(12500, 4000) / (Math.sqrt(3) * res.vMagPu[b2]! * 20);

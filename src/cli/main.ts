@@ -5,13 +5,14 @@
  * Exit codes: 0 finished clean (warnings allowed), 1 finished but feeders were set aside
  * or errors were found, 2 usage or configuration error, 3 internal error (a bug).
  */
-import { Command, CommanderError } from "@commander-js/extra-typings";
+import { Command, CommanderError, InvalidArgumentError } from "@commander-js/extra-typings";
 import { folderSource } from "../ingest/read_network.ts";
 import { validateFleet } from "../pipeline/validate_fleet.ts";
 import { choosePaint } from "./paint.ts";
 import { formatDiagnostic, formatValidation } from "./format_validation.ts";
 import { loadPipelineConfig } from "../pipeline/load_pipeline_config.ts";
-import { runStudy } from "./run_study.ts";
+import { DEFAULT_STUDY_RUN_OPTIONS, runStudy } from "./run_study.ts";
+import { createProgress } from "./progress.ts";
 import { formatStudySummary } from "./format_study.ts";
 import { VERSION } from "./version.ts";
 
@@ -34,6 +35,15 @@ async function checkDirectory(path: string): Promise<void> {
   if (!info.isDirectory) {
     throw new UsageError(`Network folder "${path}" is a file; expected a folder of CSV tables`);
   }
+}
+
+/** Parses a whole number ≥ 0 for an option. */
+function parseCount(text: string): number {
+  const n = Number(text);
+  if (!Number.isInteger(n) || n < 0) {
+    throw new InvalidArgumentError(`"${text}" is not a whole number ≥ 0`);
+  }
+  return n;
 }
 
 function buildProgram(setExit: (code: number) => void) {
@@ -81,6 +91,19 @@ function buildProgram(setExit: (code: number) => void) {
       "pipelines/nightly.json",
     )
     .option("--out <dir>", "run folder to write", "reports/latest")
+    .option(
+      "--workers <n>",
+      "worker threads (default: one per core; 0 studies in the main thread)",
+      parseCount,
+      DEFAULT_STUDY_RUN_OPTIONS.workers,
+    )
+    .option(
+      "--timeout <seconds>",
+      "longest one feeder may take before its worker is replaced",
+      parseCount,
+      300,
+    )
+    .option("--quiet", "no progress on stderr")
     .action(async (dir, options) => {
       await checkDirectory(dir);
       const config = await loadPipelineConfig(options.pipeline);
@@ -92,7 +115,15 @@ function buildProgram(setExit: (code: number) => void) {
           `Pipeline config "${options.pipeline}" has errors; nothing was studied`,
         );
       }
-      const run = await runStudy(dir, options.pipeline, config.value, options.out);
+      const progress = createProgress(
+        options.quiet ? "quiet" : Deno.stderr.isTerminal() ? "tty" : "log",
+      );
+      const run = await runStudy(dir, options.pipeline, config.value, options.out, {
+        workers: options.workers,
+        timeoutMs: options.timeout * 1000,
+        onProgress: (done, total, failed) => progress.update(done, total, failed),
+      });
+      progress.finish();
       console.log(formatStudySummary(run, options.out, paint));
       const failed = run.record.counts.failed > 0 || run.record.counts.setAside > 0 ||
         run.diagnostics.some((d) => d.severity === "error");

@@ -82,11 +82,16 @@ function roundForCsv(v: number): number {
 }
 
 /** The per-feeder result file: key figures, every case's buses and branches, findings. */
-export function feederJson(summary: FeederSummary, study: FeederStudy | undefined): string {
+export function feederJson(
+  summary: FeederSummary,
+  study: FeederStudy | undefined,
+  failure?: string,
+): string {
   return JSON.stringify(
     {
       feederId: summary.feederId,
-      status: study?.status ?? summary.status,
+      status: study?.status ?? (failure !== undefined ? "failed" : summary.status),
+      ...(failure === undefined ? {} : { failure }),
       summary,
       cases: study?.cases ?? [],
       findings: study?.findings ?? [],
