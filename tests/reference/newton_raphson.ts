@@ -18,7 +18,8 @@
  *   fixed_power_factor ±P·tan(acos pf) (absorbing = negative injection), fixed_q the given
  *   qKvar UNSCALED (assumed convention: a fixed reactive set-point does not follow the
  *   active-power scaling), voltage_control holds |V| at vSetPu with no Q limits (a PV bus;
- *   assumed also when generationScale is 0, the machine then runs as a condenser);
+ *   by default also when generationScale is 0, the machine then runs as a condenser; the
+ *   option zeroGenerationScale "out_of_service" disconnects every generator instead);
  * - the source bus (bus 0) is the slack at source.vSetPu∠source.angleDeg.
  *
  * Newton step: the mismatch F = [P_calc − P_spec(|V|); Q_calc − Q_spec(|V|)] over the
@@ -34,6 +35,13 @@ export interface ReferenceNewtonOptions {
   /** Converged when the largest Newton correction (rad or pu) is at most this. */
   readonly tolerancePu: number;
   readonly maxIterations?: number;
+  /**
+   * What a generation scale of 0 means. "in_service" (the default, the literal reading of
+   * load_flow_types.ts): P = 0, Q by the mode (fixed_q still injects), voltage control
+   * still holds |V|. "out_of_service": generators are disconnected, no P, no Q, no voltage
+   * control (the rule src/solve/_generator_setpoints.ts states for the no-generation case).
+   */
+  readonly zeroGenerationScale?: "in_service" | "out_of_service";
 }
 
 export interface ReferenceNewtonResult {
@@ -165,7 +173,9 @@ export function solveReferenceNewton(
   const genP = new Float64Array(Gn.n), genQ = new Float64Array(Gn.n);
   const vSetPv = new Float64Array(n).fill(NaN);
   const pvGen = new Int32Array(n).fill(-1);
-  for (let g = 0; g < Gn.n; g++) {
+  const disconnected = options.zeroGenerationScale === "out_of_service" &&
+    loadFlowCase.generationScale <= 0;
+  for (let g = 0; g < Gn.n && !disconnected; g++) {
     const k = group[Gn.bus[g]!]!;
     genP[g] = Gn.pKw[g]! * loadFlowCase.generationScale / 1000;
     pGen[k]! += genP[g]!;
