@@ -1,6 +1,7 @@
 /** The short summary of a study run printed on stdout. */
 import type { Paint } from "./paint.ts";
-import type { StudyRun } from "./run_study.ts";
+import type { FeederChange, StudyRun } from "./run_study.ts";
+import type { Finding } from "../checks/finding.ts";
 import { CAUTION } from "../report/run_files.ts";
 
 export function formatStudySummary(run: StudyRun, outDir: string, paint: Paint): string {
@@ -32,10 +33,40 @@ export function formatStudySummary(run: StudyRun, outDir: string, paint: Paint):
       );
     }
   }
+  if (run.cacheHits > 0) out.push(`Taken unchanged from earlier runs: ${run.cacheHits} feeder(s)`);
+  for (const c of run.changes) out.push(...formatChange(c));
   const errors = run.diagnostics.filter((d) => d.severity === "error").length;
   const warnings = run.diagnostics.length - errors;
   out.push(`Diagnostics: ${errors} error(s), ${warnings} warning(s) (see diagnostics.csv)`);
   out.push(`Run folder: ${outDir}`);
   out.push(paint.dim(CAUTION));
   return out.join("\n");
+}
+
+const findingKey = (f: Finding) => `${f.caseId} ${f.code} at ${f.where.id}`;
+
+/** What a rerun changed on one feeder: status, key figures, findings added and removed. */
+export function formatChange(c: FeederChange): string[] {
+  const out = [`Feeder ${c.feederId}:`];
+  const b = c.before, a = c.after;
+  if (b === undefined) {
+    out.push(`  new in this run (${a.status})`);
+    return out;
+  }
+  if (b.status !== a.status) out.push(`  status ${b.status} → ${a.status}`);
+  const fig = (name: string, x: number | null, y: number | null, digits: number) => {
+    if (x === y) return;
+    out.push(
+      `  ${name} ${x === null ? "–" : x.toFixed(digits)} → ${y === null ? "–" : y.toFixed(digits)}`,
+    );
+  };
+  fig("lowest voltage, pu", b.vMinPu, a.vMinPu, 4);
+  fig("highest voltage, pu", b.vMaxPu, a.vMaxPu, 4);
+  fig("highest loading, %", b.maxLoadingPercent, a.maxLoadingPercent, 1);
+  fig("largest voltage change from generation, %", b.maxDgChangePercent, a.maxDgChangePercent, 2);
+  const before = new Set(b.findings.map(findingKey)), after = new Set(a.findings.map(findingKey));
+  for (const k of [...after].filter((k) => !before.has(k)).sort()) out.push(`  + ${k}`);
+  for (const k of [...before].filter((k) => !after.has(k)).sort()) out.push(`  − ${k}`);
+  if (out.length === 1) out.push("  no change");
+  return out;
 }

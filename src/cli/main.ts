@@ -13,6 +13,8 @@ import { formatDiagnostic, formatValidation } from "./format_validation.ts";
 import { loadPipelineConfig } from "../pipeline/load_pipeline_config.ts";
 import { DEFAULT_STUDY_RUN_OPTIONS, runStudy } from "./run_study.ts";
 import { createProgress } from "./progress.ts";
+import { diffRuns, type FeederResultFile, formatDiff } from "../report/diff_runs.ts";
+import { join } from "node:path";
 import { formatStudySummary } from "./format_study.ts";
 import { VERSION } from "./version.ts";
 
@@ -104,6 +106,18 @@ function buildProgram(setExit: (code: number) => void) {
       300,
     )
     .option("--quiet", "no progress on stderr")
+    .option(
+      "--feeder <id>",
+      "rerun only this feeder of the run already in --out (repeatable) and print what changed",
+      (v: string, prev: string[]) => [...prev, v],
+      [] as string[],
+    )
+    .option(
+      "--store <file>",
+      "run store (SQLite) for provenance and the cache",
+      "reports/gridtriage.sqlite",
+    )
+    .option("--no-cache", "study every feeder even if the store holds an identical earlier result")
     .action(async (dir, options) => {
       await checkDirectory(dir);
       const config = await loadPipelineConfig(options.pipeline);
@@ -121,6 +135,9 @@ function buildProgram(setExit: (code: number) => void) {
       const run = await runStudy(dir, options.pipeline, config.value, options.out, {
         workers: options.workers,
         timeoutMs: options.timeout * 1000,
+        storePath: options.store,
+        useCache: options.cache,
+        ...(options.feeder.length > 0 ? { onlyFeeders: options.feeder } : {}),
         onProgress: (done, total, failed) => progress.update(done, total, failed),
       });
       progress.finish();
@@ -129,7 +146,39 @@ function buildProgram(setExit: (code: number) => void) {
         run.diagnostics.some((d) => d.severity === "error");
       setExit(failed ? EXIT_SET_ASIDE : EXIT_CLEAN);
     });
+  program.command("diff")
+    .description(
+      "List the feeders whose status, key figures or findings differ between two run folders, " +
+        "with before and after.",
+    )
+    .argument("<run-a>", "earlier run folder")
+    .argument("<run-b>", "later run folder")
+    .option("--json", "print machine-readable JSON instead of text")
+    .action(async (a, b, options) => {
+      const diffs = diffRuns(await readRunFeeders(a), await readRunFeeders(b));
+      console.log(options.json ? JSON.stringify(diffs, null, 2) : formatDiff(diffs));
+      setExit(EXIT_CLEAN);
+    });
   return program;
+}
+
+/** The feeder result files of a run folder, by feeder id. */
+async function readRunFeeders(runDir: string): Promise<Map<string, FeederResultFile>> {
+  const dir = join(runDir, "feeders");
+  const out = new Map<string, FeederResultFile>();
+  try {
+    for await (const e of Deno.readDir(dir)) {
+      if (!e.isFile || !e.name.endsWith(".json")) continue;
+      const f = JSON.parse(await Deno.readTextFile(join(dir, e.name))) as FeederResultFile;
+      out.set(f.feederId, f);
+    }
+  } catch (e) {
+    if (e instanceof SyntaxError) {
+      throw new UsageError(`Run folder "${runDir}" holds a damaged feeder file`);
+    }
+    throw new UsageError(`Cannot read run folder "${runDir}": it has no feeders/ folder`);
+  }
+  return out;
 }
 
 /** Runs the CLI with arguments; returns the exit code instead of exiting. */

@@ -1,19 +1,21 @@
 /**
- * The `study` command: validate the fleet, study every valid feeder, and write the run
- * folder (feeders/<id>.json as each feeder finishes, then findings.csv, diagnostics.csv
- * and run.json last). Returns what the summary and the exit code need.
+ * The `study` command: validate the fleet, study every valid feeder (taking unchanged
+ * feeders from the run store's cache), and write the run folder — feeders/<id>.json as each
+ * feeder finishes, then findings.csv, diagnostics.csv and run.json last. With `onlyFeeders`
+ * it reruns just those feeders of the run already in the folder and reports what changed.
  */
-import { join } from "node:path";
+import { join, resolve } from "node:path";
 import { compareDiagnostics, type Diagnostic, makeDiagnostic } from "../model/diagnostic.ts";
 import { type FeederForm, listTransferables } from "../model/feeder_form.ts";
-import { type PoolOutcome, type PoolTask, runPool } from "../pipeline/worker_pool.ts";
-import type { StudyWorkerInit } from "../pipeline/study_worker.ts";
+import { hashFeederForm } from "../model/hash_feeder_form.ts";
 import { folderSource } from "../ingest/read_network.ts";
 import { hashNetworkFolder } from "../ingest/hash_network.ts";
 import { validateFleet } from "../pipeline/validate_fleet.ts";
 import { type FeederStudy, studyFeeder } from "../pipeline/study_feeder.ts";
 import type { PipelineConfig } from "../pipeline/pipeline_config.ts";
 import { hashPipelineConfig } from "../pipeline/hash_pipeline_config.ts";
+import { type PoolOutcome, type PoolTask, runPool } from "../pipeline/worker_pool.ts";
+import type { StudyWorkerInit } from "../pipeline/study_worker.ts";
 import { compareFindings, type Finding } from "../checks/finding.ts";
 import {
   diagnosticsCsv,
@@ -23,20 +25,20 @@ import {
   runJson,
   type RunRecord,
 } from "../report/run_files.ts";
+import { type FeederRecord, openRunStore, type RunStore } from "./run_store.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
 import { VERSION } from "./version.ts";
-
-export interface StudyRun {
-  readonly record: RunRecord;
-  readonly findings: readonly Finding[];
-  readonly diagnostics: readonly Diagnostic[];
-  readonly studies: readonly FeederStudy[];
-}
 
 export interface StudyRunOptions {
   /** Worker count; 0 studies in this thread (no crash isolation). */
   readonly workers: number;
   readonly timeoutMs: number;
+  /** Run store (SQLite); undefined keeps no store and no cache. */
+  readonly storePath?: string;
+  /** Take unchanged feeders from the store (default true when there is a store). */
+  readonly useCache?: boolean;
+  /** Rerun only these feeders of the run already in the output folder. */
+  readonly onlyFeeders?: readonly string[];
   /** Test-only fault hook passed to the workers. */
   readonly faults?: StudyWorkerInit["faults"];
   readonly onProgress?: (done: number, total: number, failed: number) => void;
@@ -47,7 +49,49 @@ export const DEFAULT_STUDY_RUN_OPTIONS: StudyRunOptions = {
   timeoutMs: 300_000,
 };
 
+/** A rerun feeder before and after. */
+export interface FeederChange {
+  readonly feederId: string;
+  readonly before: FeederRecord | undefined;
+  readonly after: FeederRecord;
+}
+
+export interface StudyRun {
+  readonly record: RunRecord;
+  readonly findings: readonly Finding[];
+  readonly diagnostics: readonly Diagnostic[];
+  readonly cacheHits: number;
+  readonly changes: readonly FeederChange[];
+}
+
 const WORKER_URL = new URL("../pipeline/study_worker.ts", import.meta.url);
+
+/** Key figures of a study for the store. */
+function toRecord(
+  feederId: string,
+  formHash: string,
+  resultFile: string,
+  study: FeederStudy | undefined,
+  status: string,
+): FeederRecord {
+  const cases = study?.cases ?? [];
+  const max = (xs: (number | null)[]) => {
+    const v = xs.filter((x): x is number => x !== null);
+    return v.length === 0 ? null : Math.max(...v);
+  };
+  return {
+    feederId,
+    formHash,
+    status,
+    resultFile,
+    findings: study?.findings ?? [],
+    diagnostics: study?.diagnostics ?? [],
+    vMinPu: cases.length === 0 ? null : Math.min(...cases.map((c) => c.vMinPu)),
+    vMaxPu: max(cases.map((c) => c.vMaxPu)),
+    maxLoadingPercent: max(cases.map((c) => c.maxLoadingPercent)),
+    maxDgChangePercent: max(cases.map((c) => c.maxDgChangePercent)),
+  };
+}
 
 export async function runStudy(
   networkDir: string,
@@ -61,90 +105,182 @@ export async function runStudy(
     hashNetworkFolder(networkDir),
     hashPipelineConfig(config),
   ]);
-  const fleet = await validateFleet(folderSource(networkDir));
-  const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
-  const findings: Finding[] = [];
-  const diagnostics: Diagnostic[] = [...fleet.diagnostics];
-  const studies: FeederStudy[] = [];
-  let failedToRun = 0;
-  const writeFeeder = (id: string, study: FeederStudy | undefined, failure?: string) =>
-    writeFileAtomic(
-      join(outDir, "feeders", feederFileName(id)),
-      feederJson(summaries.get(id)!, study, failure),
-    );
-  for (const f of fleet.value.feeders) {
-    if (f.status === "set_aside") await writeFeeder(f.feederId, undefined);
-  }
-  const total = fleet.value.forms.length;
-  let done = 0;
-  const accept = async (outcome: PoolOutcome<FeederStudy>) => {
-    done++;
-    if (outcome.ok) {
-      studies.push(outcome.value);
-      findings.push(...outcome.value.findings);
-      diagnostics.push(...outcome.value.diagnostics);
-      await writeFeeder(outcome.id, outcome.value);
-    } else {
-      failedToRun++;
-      diagnostics.push(makeDiagnostic(
-        "study.failed",
-        "error",
-        `Feeder "${outcome.id}" could not be studied after ${outcome.attempts} attempt(s): ${outcome.reason}`,
-        { feederId: outcome.id },
-      ));
-      await writeFeeder(outcome.id, undefined, outcome.reason);
+  const store: RunStore | undefined = options.storePath === undefined
+    ? undefined
+    : await openRunStore(options.storePath);
+  try {
+    const outAbs = resolve(outDir);
+    const previous = store?.latestRun(outAbs);
+    if (options.onlyFeeders !== undefined && previous === undefined) {
+      throw new Error(
+        `no earlier run of "${outDir}" is in the run store; run the whole study into it first`,
+      );
     }
-    options.onProgress?.(done, total, failedToRun);
-  };
-  if (options.workers <= 0) {
-    for (const form of fleet.value.forms) {
-      await accept({ id: form.feederId, ok: true, value: studyFeeder(form, config), attempts: 1 });
-    }
-  } else {
-    const tasks = function* (): Generator<PoolTask<FeederForm>> {
-      for (const form of fleet.value.forms) {
-        yield { id: form.feederId, payload: form, transfer: listTransferables(form) };
+    const runId = store?.beginRun({
+      network: networkDir,
+      pipeline: pipelinePath,
+      outDir: outAbs,
+      inputHash,
+      configHash,
+      version: VERSION,
+      startedAt,
+    });
+    const fleet = await validateFleet(folderSource(networkDir));
+    const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
+    const records = new Map<string, FeederRecord>();
+    const diagnostics: Diagnostic[] = [...fleet.diagnostics];
+    const fileOf = (id: string) => join(outAbs, "feeders", feederFileName(id));
+    const keep = (r: FeederRecord) => {
+      records.set(r.feederId, r);
+      if (store !== undefined && runId !== undefined) {
+        store.recordFeeder(runId, configHash, VERSION, r);
       }
     };
-    const init: StudyWorkerInit = {
-      settings: config,
-      ...(options.faults ? { faults: options.faults } : {}),
+    for (const f of fleet.value.feeders) {
+      if (f.status !== "set_aside") continue;
+      await writeFileAtomic(fileOf(f.feederId), feederJson(f, undefined));
+      keep(toRecord(f.feederId, "", fileOf(f.feederId), undefined, "set_aside"));
+    }
+
+    // What to compute, what to take from the store.
+    const only = options.onlyFeeders === undefined
+      ? undefined
+      : new Set(options.onlyFeeders.map((x) => x.toLowerCase()));
+    const useCache = store !== undefined && (options.useCache ?? true);
+    const toStudy: { form: FeederForm; hash: string }[] = [];
+    let cacheHits = 0;
+    for (const form of fleet.value.forms) {
+      const hash = await hashFeederForm(form);
+      const id = form.feederId;
+      const earlier = only !== undefined && !only.has(id.toLowerCase())
+        ? previous?.feeders.get(id)
+        : only === undefined && useCache
+        ? store!.findCached(id, hash, configHash, VERSION)
+        : undefined;
+      const text = earlier === undefined ? undefined : await readIfPresent(earlier.resultFile);
+      if (earlier !== undefined && text !== undefined) {
+        if (resolve(earlier.resultFile) !== fileOf(id)) await writeFileAtomic(fileOf(id), text);
+        keep({ ...earlier, resultFile: fileOf(id) });
+        cacheHits++;
+        continue;
+      }
+      toStudy.push({ form, hash });
+    }
+    if (only !== undefined) {
+      const known = new Set(fleet.value.feeders.map((f) => f.feederId.toLowerCase()));
+      for (const id of options.onlyFeeders!) {
+        if (!known.has(id.toLowerCase())) throw new Error(`feeder "${id}" is not in this network`);
+      }
+    }
+
+    const hashes = new Map(toStudy.map((t) => [t.form.feederId, t.hash]));
+    const total = toStudy.length;
+    let done = 0, failedToRun = 0;
+    const accept = async (outcome: PoolOutcome<FeederStudy>) => {
+      done++;
+      const id = outcome.id;
+      if (outcome.ok) {
+        await writeFileAtomic(fileOf(id), feederJson(summaries.get(id)!, outcome.value));
+        keep(toRecord(id, hashes.get(id)!, fileOf(id), outcome.value, outcome.value.status));
+      } else {
+        failedToRun++;
+        const failure = makeDiagnostic(
+          "study.failed",
+          "error",
+          `Feeder "${id}" could not be studied after ${outcome.attempts} attempt(s): ${outcome.reason}`,
+          { feederId: id },
+        );
+        await writeFileAtomic(
+          fileOf(id),
+          feederJson(summaries.get(id)!, undefined, outcome.reason),
+        );
+        keep({
+          ...toRecord(id, hashes.get(id)!, fileOf(id), undefined, "failed"),
+          diagnostics: [failure],
+        });
+      }
+      options.onProgress?.(done, total, failedToRun);
     };
-    await runPool<FeederForm, FeederStudy>(
-      tasks(),
-      { workerUrl: WORKER_URL, workers: options.workers, timeoutMs: options.timeoutMs, init },
-      accept,
-    );
+    if (options.workers <= 0 || total === 0) {
+      for (const { form } of toStudy) {
+        await accept({
+          id: form.feederId,
+          ok: true,
+          value: studyFeeder(form, config),
+          attempts: 1,
+        });
+      }
+    } else {
+      const tasks = function* (): Generator<PoolTask<FeederForm>> {
+        for (const { form } of toStudy) {
+          yield { id: form.feederId, payload: form, transfer: listTransferables(form) };
+        }
+      };
+      const init: StudyWorkerInit = {
+        settings: config,
+        ...(options.faults ? { faults: options.faults } : {}),
+      };
+      await runPool<FeederForm, FeederStudy>(
+        tasks(),
+        { workerUrl: WORKER_URL, workers: options.workers, timeoutMs: options.timeoutMs, init },
+        accept,
+      );
+    }
+
+    const all = [...records.values()];
+    const findings = all.flatMap((r) => r.findings).sort(compareFindings);
+    diagnostics.push(...all.flatMap((r) => r.diagnostics));
+    diagnostics.sort(compareDiagnostics);
+    await writeFileAtomic(join(outAbs, "findings.csv"), findingsCsv(findings));
+    await writeFileAtomic(join(outAbs, "diagnostics.csv"), diagnosticsCsv(diagnostics));
+    const count = <T>(xs: readonly T[], key: (x: T) => string) => {
+      const out: Record<string, number> = {};
+      for (const x of [...xs].sort((a, b) => (key(a) < key(b) ? -1 : 1))) {
+        out[key(x)] = (out[key(x)] ?? 0) + 1;
+      }
+      return out;
+    };
+    const record: RunRecord = {
+      tool: "gridtriage",
+      version: VERSION,
+      command: "study",
+      network: networkDir,
+      pipeline: pipelinePath,
+      pipelineName: config.name ?? null,
+      inputHash,
+      configHash,
+      startedAt,
+      finishedAt: new Date().toISOString(),
+      counts: {
+        feeders: fleet.value.feeders.length,
+        studied: all.filter((r) => r.status === "studied").length,
+        failed: all.filter((r) => r.status === "failed").length,
+        setAside: all.filter((r) => r.status === "set_aside").length,
+        findings: count(findings, (f) => f.severity),
+        diagnostics: count(diagnostics, (d) => d.severity),
+      },
+    };
+    await writeFileAtomic(join(outAbs, "run.json"), runJson(record));
+    if (store !== undefined && runId !== undefined) {
+      store.finishRun(runId, record.finishedAt, record.counts);
+    }
+    const changes: FeederChange[] = only === undefined ? [] : [...records.values()]
+      .filter((r) => only.has(r.feederId.toLowerCase()))
+      .map((after) => ({
+        feederId: after.feederId,
+        before: previous?.feeders.get(after.feederId),
+        after,
+      }));
+    return { record, findings, diagnostics, cacheHits, changes };
+  } finally {
+    store?.close();
   }
-  findings.sort(compareFindings);
-  diagnostics.sort(compareDiagnostics);
-  await writeFileAtomic(join(outDir, "findings.csv"), findingsCsv(findings));
-  await writeFileAtomic(join(outDir, "diagnostics.csv"), diagnosticsCsv(diagnostics));
-  const count = <T>(xs: readonly T[], key: (x: T) => string) => {
-    const out: Record<string, number> = {};
-    for (const x of xs) out[key(x)] = (out[key(x)] ?? 0) + 1;
-    return out;
-  };
-  const record: RunRecord = {
-    tool: "gridtriage",
-    version: VERSION,
-    command: "study",
-    network: networkDir,
-    pipeline: pipelinePath,
-    pipelineName: config.name ?? null,
-    inputHash,
-    configHash,
-    startedAt,
-    finishedAt: new Date().toISOString(),
-    counts: {
-      feeders: fleet.value.feeders.length,
-      studied: studies.filter((s) => s.status === "studied").length,
-      failed: studies.filter((s) => s.status === "failed").length + failedToRun,
-      setAside: fleet.value.feeders.filter((f) => f.status === "set_aside").length,
-      findings: count(findings, (f) => f.severity),
-      diagnostics: count(diagnostics, (d) => d.severity),
-    },
-  };
-  await writeFileAtomic(join(outDir, "run.json"), runJson(record));
-  return { record, findings, diagnostics, studies };
+}
+
+async function readIfPresent(path: string): Promise<string | undefined> {
+  try {
+    return await Deno.readTextFile(path);
+  } catch {
+    return undefined;
+  }
 }

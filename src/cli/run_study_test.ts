@@ -114,3 +114,97 @@ Deno.test("runStudy() reports a feeder whose worker crashes or hangs and keeps e
     await Deno.remove(TMP, { recursive: true }).catch(() => {});
   }
 });
+
+/** Copies the demo fleet to a scratch folder, optionally editing one table. */
+async function copyFleet(
+  to: string,
+  edit?: { file: string; from: string; to: string },
+): Promise<void> {
+  await Deno.mkdir(to, { recursive: true });
+  for await (const e of Deno.readDir("data-samples/norvessa")) {
+    if (!e.name.endsWith(".csv")) continue;
+    let text = await Deno.readTextFile(`data-samples/norvessa/${e.name}`);
+    if (edit && edit.file === e.name) {
+      assert(text.includes(edit.from), `${e.name} holds ${edit.from}`);
+      text = text.replace(edit.from, edit.to);
+    }
+    await Deno.writeTextFile(`${to}/${e.name}`, text);
+  }
+}
+
+Deno.test("runStudy() takes unchanged feeders from the store and studies the changed one", async () => {
+  const config = (await loadPipelineConfig("pipelines/nightly.json")).value!;
+  await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  try {
+    const store = `${TMP}/store.sqlite`;
+    const opts: StudyRunOptions = { workers: 0, timeoutMs: 60_000, storePath: store };
+    const first = await runStudy("data-samples/norvessa", "p", config, `${TMP}/r1`, opts);
+    assertEquals(first.cacheHits, 0);
+    const again = await runStudy("data-samples/norvessa", "p", config, `${TMP}/r2`, opts);
+    assertEquals(again.cacheHits, 13);
+    const t1 = await readTree(`${TMP}/r1`), t2 = await readTree(`${TMP}/r2`);
+    delete t1["run.json"];
+    delete t2["run.json"];
+    assertEquals(t2, t1);
+    // One feeder's load edited: a miss for it, hits for the twelve others.
+    await copyFleet(`${TMP}/net`);
+    const loads = await Deno.readTextFile(`${TMP}/net/loads.csv`);
+    const line = loads.split("\n").find((l) => l.includes(",CTY-K3-"))!;
+    const cells = line.split(",");
+    cells[2] = String(Number(cells[2]) * 2);
+    await Deno.writeTextFile(`${TMP}/net/loads.csv`, loads.replace(line, cells.join(",")));
+    const edited = await runStudy(`${TMP}/net`, "p", config, `${TMP}/r3`, opts);
+    assertEquals(edited.cacheHits, 12);
+    const noCache = await runStudy(`${TMP}/net`, "p", config, `${TMP}/r4`, {
+      ...opts,
+      useCache: false,
+    });
+    assertEquals(noCache.cacheHits, 0);
+  } finally {
+    await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  }
+});
+
+Deno.test("runStudy() with onlyFeeders reruns one edited feeder and changes only its outputs", async () => {
+  const config = (await loadPipelineConfig("pipelines/nightly.json")).value!;
+  await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  try {
+    const opts: StudyRunOptions = {
+      workers: 0,
+      timeoutMs: 60_000,
+      storePath: `${TMP}/store.sqlite`,
+    };
+    await copyFleet(`${TMP}/net`);
+    const out = `${TMP}/run`;
+    await runStudy(`${TMP}/net`, "p", config, out, opts);
+    const before = await readTree(out);
+    // Double every generator of MOR-L3 and scale another feeder's loads, then rerun MOR-L3 only.
+    const gens = await Deno.readTextFile(`${TMP}/net/generators.csv`);
+    await Deno.writeTextFile(
+      `${TMP}/net/generators.csv`,
+      gens.split("\n").map((l) => {
+        if (!l.includes(",MOR-L3-")) return l;
+        const c = l.split(",");
+        c[3] = String(Number(c[3]) * 2);
+        c[4] = String(Number(c[4]) * 2);
+        return c.join(",");
+      }).join("\n"),
+    );
+    const run = await runStudy(`${TMP}/net`, "p", config, out, {
+      ...opts,
+      onlyFeeders: ["MOR-L3"],
+    });
+    const after = await readTree(out);
+    assertEquals(run.changes.map((c) => c.feederId), ["MOR-L3"]);
+    const ch = run.changes[0]!;
+    assert(ch.before !== undefined && ch.after.maxDgChangePercent! > ch.before.maxDgChangePercent!);
+    for (const k of Object.keys(before)) {
+      if (k.startsWith("feeders/") && k !== "feeders/MOR-L3.json") {
+        assertEquals(after[k], before[k], k);
+      }
+    }
+    assert(after["feeders/MOR-L3.json"] !== before["feeders/MOR-L3.json"]);
+  } finally {
+    await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  }
+});
