@@ -13,6 +13,8 @@ import { formatDiagnostic, formatValidation } from "./format_validation.ts";
 import { loadPipelineConfig } from "../pipeline/load_pipeline_config.ts";
 import { DEFAULT_STUDY_RUN_OPTIONS, runStudy } from "./run_study.ts";
 import { createProgress } from "./progress.ts";
+import { MergeError, mergeRuns } from "./merge_runs.ts";
+import { parseShard } from "../pipeline/shard.ts";
 import { diffRuns, type FeederResultFile, formatDiff } from "../report/diff_runs.ts";
 import { join } from "node:path";
 import { formatStudySummary } from "./format_study.ts";
@@ -118,6 +120,19 @@ function buildProgram(setExit: (code: number) => void) {
       "reports/gridtriage.sqlite",
     )
     .option("--no-cache", "study every feeder even if the store holds an identical earlier result")
+    .option(
+      "--shard <i/N>",
+      "study only share i of N of the fleet (by a hash of the feeder id)",
+      (v: string) => {
+        const shard = parseShard(v);
+        if (shard === undefined) {
+          throw new InvalidArgumentError(
+            `"${v}" is not of the form i/N with 1 ≤ i ≤ N`,
+          );
+        }
+        return shard;
+      },
+    )
     .action(async (dir, options) => {
       await checkDirectory(dir);
       const config = await loadPipelineConfig(options.pipeline);
@@ -138,6 +153,7 @@ function buildProgram(setExit: (code: number) => void) {
         storePath: options.store,
         useCache: options.cache,
         ...(options.feeder.length > 0 ? { onlyFeeders: options.feeder } : {}),
+        ...(options.shard === undefined ? {} : { shard: options.shard }),
         onProgress: (done, total, failed) => progress.update(done, total, failed),
       });
       progress.finish();
@@ -146,6 +162,26 @@ function buildProgram(setExit: (code: number) => void) {
         run.diagnostics.some((d) => d.severity === "error");
       setExit(failed ? EXIT_SET_ASIDE : EXIT_CLEAN);
     });
+  program.command("merge")
+    .description(
+      "Combine the run folders of every shard of one study (study --shard i/N) into one run " +
+        "folder, identical to a single-machine run but for the times in run.json.",
+    )
+    .argument("<shard-dirs...>", "the shard run folders, all N of them")
+    .requiredOption("--out <dir>", "run folder to write")
+    .action(async (dirs, options) => {
+      try {
+        const merged = await mergeRuns(dirs, options.out);
+        console.log(
+          `Merged ${dirs.length} shards: ${merged.counts.feeders} feeders into ${options.out}`,
+        );
+      } catch (e) {
+        if (e instanceof MergeError) throw new UsageError(e.message);
+        throw e;
+      }
+      setExit(EXIT_CLEAN);
+    });
+
   program.command("diff")
     .description(
       "List the feeders whose status, key figures or findings differ between two run folders, " +

@@ -11,6 +11,7 @@ import { hashFeederForm } from "../model/hash_feeder_form.ts";
 import { folderSource } from "../ingest/read_network.ts";
 import { hashNetworkFolder } from "../ingest/hash_network.ts";
 import { validateFleet } from "../pipeline/validate_fleet.ts";
+import { inShard, type Shard } from "../pipeline/shard.ts";
 import { type FeederStudy, studyFeeder } from "../pipeline/study_feeder.ts";
 import type { PipelineConfig } from "../pipeline/pipeline_config.ts";
 import { hashPipelineConfig } from "../pipeline/hash_pipeline_config.ts";
@@ -39,6 +40,8 @@ export interface StudyRunOptions {
   readonly useCache?: boolean;
   /** Rerun only these feeders of the run already in the output folder. */
   readonly onlyFeeders?: readonly string[];
+  /** Study only this deterministic share of the fleet (see shard.ts). */
+  readonly shard?: Shard;
   /** Test-only fault hook passed to the workers. */
   readonly faults?: StudyWorkerInit["faults"];
   readonly onProgress?: (done: number, total: number, failed: number) => void;
@@ -125,11 +128,12 @@ export async function runStudy(
       version: VERSION,
       startedAt,
     });
-    const fleet = await validateFleet(folderSource(networkDir));
+    const fleet = shareOf(await validateFleet(folderSource(networkDir)), options.shard);
     const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
     const records = new Map<string, FeederRecord>();
     const diagnostics: Diagnostic[] = [...fleet.diagnostics];
     const fileOf = (id: string) => join(outAbs, "feeders", feederFileName(id));
+    await Deno.mkdir(join(outAbs, "feeders"), { recursive: true });
     const keep = (r: FeederRecord) => {
       records.set(r.feederId, r);
       if (store !== undefined && runId !== undefined) {
@@ -241,6 +245,7 @@ export async function runStudy(
       return out;
     };
     const record: RunRecord = {
+      ...(options.shard === undefined ? {} : { shard: options.shard }),
       tool: "gridtriage",
       version: VERSION,
       command: "study",
@@ -283,4 +288,26 @@ async function readIfPresent(path: string): Promise<string | undefined> {
   } catch {
     return undefined;
   }
+}
+
+/**
+ * The share of a validated fleet a shard studies: its feeders, their diagnostics, and — in
+ * shard 1 only — the diagnostics that belong to no feeder, so a merge holds each once.
+ */
+function shareOf(
+  fleet: Awaited<ReturnType<typeof validateFleet>>,
+  shard: Shard | undefined,
+): Awaited<ReturnType<typeof validateFleet>> {
+  if (shard === undefined) return fleet;
+  const mine = (id: string) => inShard(id, shard);
+  return {
+    value: {
+      ...fleet.value,
+      feeders: fleet.value.feeders.filter((f) => mine(f.feederId)),
+      forms: fleet.value.forms.filter((f) => mine(f.feederId)),
+    },
+    diagnostics: fleet.diagnostics.filter((d) =>
+      d.feederId === undefined ? shard.index === 1 : mine(d.feederId.split(",")[0]!)
+    ),
+  };
 }

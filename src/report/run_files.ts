@@ -109,6 +109,8 @@ export function feederFileName(feederId: string): string {
 }
 
 export interface RunRecord {
+  /** Present on a shard run: which share of the fleet it holds. */
+  readonly shard?: { readonly index: number; readonly count: number };
   readonly tool: string;
   readonly version: string;
   readonly command: string;

@@ -1,0 +1,95 @@
+/**
+ * The `merge` command: combines the run folders of the shards of one study into one run
+ * folder, identical to what a single machine would have written (but for the times in
+ * run.json). Refuses shards of different inputs, configs or tool versions, and incomplete
+ * or repeated shard sets.
+ */
+import { join } from "node:path";
+import { compareDiagnostics, type Diagnostic } from "../model/diagnostic.ts";
+import { compareFindings, type Finding } from "../checks/finding.ts";
+import { diagnosticsCsv, findingsCsv, runJson, type RunRecord } from "../report/run_files.ts";
+import { parseDiagnosticsCsv, parseFindingsCsv } from "../report/read_run_files.ts";
+import { writeFileAtomic } from "./write_atomic.ts";
+
+export class MergeError extends Error {}
+
+export async function mergeRuns(shardDirs: readonly string[], outDir: string): Promise<RunRecord> {
+  const records: RunRecord[] = [];
+  for (const dir of shardDirs) {
+    let text: string;
+    try {
+      text = await Deno.readTextFile(join(dir, "run.json"));
+    } catch {
+      throw new MergeError(`"${dir}" is not a run folder: it has no run.json`);
+    }
+    records.push(JSON.parse(text) as RunRecord);
+  }
+  const first = records[0];
+  if (first === undefined) throw new MergeError("no shard folders given");
+  const count = first.shard?.count;
+  if (count === undefined) throw new MergeError(`"${shardDirs[0]}" is not a shard run`);
+  const seen = new Set<number>();
+  records.forEach((r, i) => {
+    const same = r.inputHash === first.inputHash && r.configHash === first.configHash &&
+      r.version === first.version && r.shard?.count === count;
+    if (!same) {
+      throw new MergeError(
+        `"${
+          shardDirs[i]
+        }" is a shard of another study (input, pipeline, version or shard count differ)`,
+      );
+    }
+    if (seen.has(r.shard!.index)) {
+      throw new MergeError(`shard ${r.shard!.index}/${count} is given twice`);
+    }
+    seen.add(r.shard!.index);
+  });
+  const missing = Array.from({ length: count }, (_, i) => i + 1).filter((i) => !seen.has(i));
+  if (missing.length > 0) {
+    throw new MergeError(`shards ${missing.map((i) => `${i}/${count}`).join(", ")} are missing`);
+  }
+
+  const findings: Finding[] = [];
+  const diagnostics: Diagnostic[] = [];
+  for (const dir of shardDirs) {
+    findings.push(...parseFindingsCsv(await Deno.readTextFile(join(dir, "findings.csv"))));
+    diagnostics.push(...parseDiagnosticsCsv(await Deno.readTextFile(join(dir, "diagnostics.csv"))));
+    await Deno.mkdir(join(outDir, "feeders"), { recursive: true });
+    for await (const e of Deno.readDir(join(dir, "feeders"))) {
+      if (!e.isFile || !e.name.endsWith(".json")) continue;
+      await writeFileAtomic(
+        join(outDir, "feeders", e.name),
+        await Deno.readTextFile(join(dir, "feeders", e.name)),
+      );
+    }
+  }
+  findings.sort(compareFindings);
+  diagnostics.sort(compareDiagnostics);
+  await writeFileAtomic(join(outDir, "findings.csv"), findingsCsv(findings));
+  await writeFileAtomic(join(outDir, "diagnostics.csv"), diagnosticsCsv(diagnostics));
+  const tally = <T>(xs: readonly T[], key: (x: T) => string) => {
+    const out: Record<string, number> = {};
+    for (const x of [...xs].sort((a, b) => (key(a) < key(b) ? -1 : 1))) {
+      out[key(x)] = (out[key(x)] ?? 0) + 1;
+    }
+    return out;
+  };
+  const sum = (k: "feeders" | "studied" | "failed" | "setAside") =>
+    records.reduce((s, r) => s + r.counts[k], 0);
+  const { shard: _shard, ...base } = first;
+  const merged: RunRecord = {
+    ...base,
+    startedAt: records.map((r) => r.startedAt).sort()[0]!,
+    finishedAt: records.map((r) => r.finishedAt).sort().at(-1)!,
+    counts: {
+      feeders: sum("feeders"),
+      studied: sum("studied"),
+      failed: sum("failed"),
+      setAside: sum("setAside"),
+      findings: tally(findings, (f) => f.severity),
+      diagnostics: tally(diagnostics, (d) => d.severity),
+    },
+  };
+  await writeFileAtomic(join(outDir, "run.json"), runJson(merged));
+  return merged;
+}

@@ -1,0 +1,69 @@
+/**
+ * Scale-out: three shard processes of the CLI and a merge give the same run folder, byte
+ * for byte, as one process studying the whole fleet (run.json differs only in its times).
+ */
+import { deepStrictEqual as assertEquals } from "node:assert/strict";
+import { join } from "node:path";
+
+const TMP = "reports/.test-tmp/shards";
+const PERMS = [
+  "--allow-read",
+  "--allow-write=reports",
+  "--allow-env=NO_COLOR,FORCE_COLOR,CLICOLOR_FORCE,TERM",
+];
+
+async function cli(...args: string[]): Promise<void> {
+  const out = await new Deno.Command(Deno.execPath(), {
+    args: ["run", ...PERMS, "src/cli/main.ts", ...args],
+    stdout: "piped",
+    stderr: "piped",
+  }).output();
+  if (out.code !== 0 && out.code !== 1) {
+    throw new Error(
+      `gridtriage ${args.join(" ")} exited ${out.code}: ${new TextDecoder().decode(out.stderr)}`,
+    );
+  }
+}
+
+async function readTree(dir: string): Promise<Record<string, string>> {
+  const out: Record<string, string> = {};
+  for await (const e of Deno.readDir(dir)) {
+    const p = join(dir, e.name);
+    if (e.isDirectory) {
+      for (const [k, v] of Object.entries(await readTree(p))) out[`${e.name}/${k}`] = v;
+    } else out[e.name] = await Deno.readTextFile(p);
+  }
+  return out;
+}
+
+const withoutTimes = (runJson: string) => runJson.replace(/"(startedAt|finishedAt)": "[^"]*"/g, "");
+
+Deno.test("study --shard i/3 in three processes and merge equal a single run byte for byte", async () => {
+  await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  try {
+    const common = ["--quiet", "--no-cache", "--store", `${TMP}/store.sqlite`];
+    await Promise.all(
+      [1, 2, 3].map((i) =>
+        cli(
+          "study",
+          "data-samples/norvessa",
+          "--out",
+          `${TMP}/s${i}`,
+          "--shard",
+          `${i}/3`,
+          ...common,
+        )
+      ),
+    );
+    await cli("merge", `${TMP}/s1`, `${TMP}/s2`, `${TMP}/s3`, "--out", `${TMP}/merged`);
+    await cli("study", "data-samples/norvessa", "--out", `${TMP}/single`, ...common);
+    const merged = await readTree(`${TMP}/merged`), single = await readTree(`${TMP}/single`);
+    assertEquals(Object.keys(merged).sort(), Object.keys(single).sort());
+    for (const k of Object.keys(single)) {
+      if (k === "run.json") assertEquals(withoutTimes(merged[k]!), withoutTimes(single[k]!));
+      else assertEquals(merged[k], single[k], k);
+    }
+  } finally {
+    await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  }
+});
