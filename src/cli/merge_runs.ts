@@ -76,7 +76,7 @@ export async function mergeRuns(shardDirs: readonly string[], outDir: string): P
   };
   const sum = (k: "feeders" | "studied" | "failed" | "setAside") =>
     records.reduce((s, r) => s + r.counts[k], 0);
-  const { shard: _shard, ...base } = first;
+  const { shard: _shard, timing: _timing, ...base } = first;
   const merged: RunRecord = {
     ...base,
     startedAt: records.map((r) => r.startedAt).sort()[0]!,

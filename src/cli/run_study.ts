@@ -128,7 +128,10 @@ export async function runStudy(
       version: VERSION,
       startedAt,
     });
+    const t0 = performance.now();
     const fleet = shareOf(await validateFleet(folderSource(networkDir)), options.shard);
+    const validateMs = performance.now() - t0;
+    let solveMs = 0;
     const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
     const records = new Map<string, FeederRecord>();
     const diagnostics: Diagnostic[] = [...fleet.diagnostics];
@@ -184,6 +187,7 @@ export async function runStudy(
       done++;
       const id = outcome.id;
       if (outcome.ok) {
+        solveMs += outcome.workMs;
         await writeFileAtomic(fileOf(id), feederJson(summaries.get(id)!, outcome.value));
         keep(toRecord(id, hashes.get(id)!, fileOf(id), outcome.value, outcome.value.status));
       } else {
@@ -207,11 +211,14 @@ export async function runStudy(
     };
     if (options.workers <= 0 || total === 0) {
       for (const { form } of toStudy) {
+        const t = performance.now();
+        const value = studyFeeder(form, config);
         await accept({
           id: form.feederId,
           ok: true,
-          value: studyFeeder(form, config),
+          value,
           attempts: 1,
+          workMs: performance.now() - t,
         });
       }
     } else {
@@ -256,6 +263,13 @@ export async function runStudy(
       configHash,
       startedAt,
       finishedAt: new Date().toISOString(),
+      timing: {
+        wallMs: Math.round(performance.now() - t0),
+        validateMs: Math.round(validateMs),
+        solveMs: Math.round(solveMs),
+        workers: options.workers,
+        cacheHits,
+      },
       counts: {
         feeders: fleet.value.feeders.length,
         studied: all.filter((r) => r.status === "studied").length,

@@ -6,6 +6,7 @@
 import { type Diagnostic, makeDiagnostic } from "./diagnostic.ts";
 import type { Network, Taint } from "./network.ts";
 import type { FeederForm } from "./feeder_form.ts";
+import { arrayMax } from "./array_extremes.ts";
 import type { FeederTopology } from "./split_feeders.ts";
 
 /** How far above the nominal kV a feeder's reach (km) or load (MVA) may go before a warning. */
@@ -61,7 +62,7 @@ export function summarizeFeeder(
   const vnKv = firstFeederBus === undefined
     ? null
     : busById.get(firstFeederBus.toLowerCase())?.vnKv ?? null;
-  const reachKm = form === undefined ? null : Math.max(0, ...form.distanceKm);
+  const reachKm = form === undefined ? null : arrayMax(form.distanceKm, 0);
   const customers = [...own].reduce((s, b) => s + (busById.get(b)?.customers ?? 0), 0) +
     loads.reduce((s, l) => s + l.customers, 0);
   const peakLoadKw = sum(loads.map((l) => l.peakPKw));

@@ -6,6 +6,7 @@ import type { Diagnostic } from "../model/diagnostic.ts";
 import { BRANCH_LINE, BRANCH_SWITCH, type FeederForm } from "../model/feeder_form.ts";
 import type { LoadFlowCase, LoadFlowOptions, LoadFlowResult } from "../solve/load_flow_types.ts";
 import { prepareLoadFlow } from "../solve/prepare_load_flow.ts";
+import { arrayMax, arrayMaxAbs, arrayMin } from "../model/array_extremes.ts";
 import { solveLoadFlow } from "../solve/solve_load_flow.ts";
 import type { CheckLimits, CheckSelection } from "../checks/check_options.ts";
 import { compareFindings, type Finding } from "../checks/finding.ts";
@@ -120,8 +121,8 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
       sourceQKvar: round(res.sourceQKvar, 3),
       lossesKw: round(res.lossesKw, 3),
       lossesKvar: round(res.lossesKvar, 3),
-      vMinPu: round(Math.min(...res.vMagPu), 6),
-      vMaxPu: round(Math.max(...res.vMagPu), 6),
+      vMinPu: round(arrayMin(res.vMagPu), 6),
+      vMaxPu: round(arrayMax(res.vMagPu), 6),
       maxLoadingPercent: 0,
       maxDgChangePercent: null,
       sourceQShiftKvar: null,
@@ -135,7 +136,7 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
       continue;
     }
     const loading = branchLoadingPercent(form, res);
-    outcome.maxLoadingPercent = round(Math.max(0, ...loading), 3);
+    outcome.maxLoadingPercent = round(arrayMax(loading, 0), 3);
     if (settings.checks.voltageBand) findings.push(...checkVoltageBand(form, res, settings.limits));
     findings.push(...checkFlows(form, res, settings.limits, settings.checks));
 
@@ -157,7 +158,7 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
           res.genPKw,
           res.genQKvar,
         );
-        outcome.maxDgChangePercent = round(Math.max(...change.map(Math.abs)), 4);
+        outcome.maxDgChangePercent = round(arrayMaxAbs(change), 4);
         outcome.sourceQShiftKvar = round(res.sourceQKvar - base.sourceQKvar, 3);
         if (settings.checks.voltageChange) {
           findings.push(...checkVoltageChange(form, c.id, change, parts, settings.limits));

@@ -43,7 +43,9 @@ self.onmessage = (e: MessageEvent) => {
     return;
   }
   try {
-    self.postMessage({ kind: "done", id: m.id, value: studyFeeder(m.payload, init.settings) });
+    const t0 = performance.now();
+    const value = studyFeeder(m.payload, init.settings);
+    self.postMessage({ kind: "done", id: m.id, value, ms: performance.now() - t0 });
   } catch (err) {
     self.postMessage({
       kind: "failed",

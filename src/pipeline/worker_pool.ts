@@ -6,7 +6,7 @@
  *
  * Messages: the pool sends { kind: "init", init } once per worker, then
  * { kind: "task", id, payload } (payload transferred); the worker answers
- * { kind: "done", id, value } or { kind: "failed", id, message }.
+ * { kind: "done", id, value, ms? } or { kind: "failed", id, message }.
  */
 
 export interface PoolTask<I> {
@@ -17,7 +17,14 @@ export interface PoolTask<I> {
 }
 
 export type PoolOutcome<O> =
-  | { readonly id: string; readonly ok: true; readonly value: O; readonly attempts: number }
+  | {
+    readonly id: string;
+    readonly ok: true;
+    readonly value: O;
+    readonly attempts: number;
+    /** Time the worker reports it spent on the task, ms (0 when it reports none). */
+    readonly workMs: number;
+  }
   | { readonly id: string; readonly ok: false; readonly reason: string; readonly attempts: number };
 
 export interface PoolOptions {
@@ -35,7 +42,7 @@ interface Slot {
 }
 
 type WorkerMessage<O> =
-  | { kind: "done"; id: string; value: O }
+  | { kind: "done"; id: string; value: O; ms?: number }
   | { kind: "failed"; id: string; message: string };
 
 /** Runs every task; `onOutcome` is awaited in completion order. */
@@ -89,7 +96,7 @@ export async function runPool<I, O>(
         const m = e.data;
         if (m.id !== task.id) return;
         if (m.kind === "done") {
-          finish({ id: task.id, ok: true, value: m.value, attempts: 1 }, false);
+          finish({ id: task.id, ok: true, value: m.value, attempts: 1, workMs: m.ms ?? 0 }, false);
         } else finish({ id: task.id, ok: false, reason: m.message, attempts: 1 }, false);
       };
       w.onerror = (e: ErrorEvent) => {

@@ -121,6 +121,15 @@ export interface RunRecord {
   readonly configHash: string;
   readonly startedAt: string;
   readonly finishedAt: string;
+  /** Times of this run (like startedAt, they differ between identical runs). */
+  readonly timing?: {
+    readonly wallMs: number;
+    readonly validateMs: number;
+    /** Sum over feeders of the time spent studying them. */
+    readonly solveMs: number;
+    readonly workers: number;
+    readonly cacheHits: number;
+  };
   readonly counts: {
     readonly feeders: number;
     readonly studied: number;
