@@ -14,6 +14,7 @@ import { loadPipelineConfig } from "../pipeline/load_pipeline_config.ts";
 import { DEFAULT_STUDY_RUN_OPTIONS, runStudy } from "./run_study.ts";
 import { createProgress } from "./progress.ts";
 import { MergeError, mergeRuns } from "./merge_runs.ts";
+import { writeSynthFleet } from "./write_fleet.ts";
 import { parseShard } from "../pipeline/shard.ts";
 import { diffRuns, type FeederResultFile, formatDiff } from "../report/diff_runs.ts";
 import { join } from "node:path";
@@ -47,6 +48,18 @@ function parseCount(text: string): number {
   if (!Number.isInteger(n) || n < 0) {
     throw new InvalidArgumentError(`"${text}" is not a whole number ≥ 0`);
   }
+  return n;
+}
+
+function parsePositive(text: string): number {
+  const n = parseCount(text);
+  if (n < 1) throw new InvalidArgumentError(`"${text}" must be at least 1`);
+  return n;
+}
+
+function parseFloatOption(text: string): number {
+  const n = Number(text);
+  if (!Number.isFinite(n) || n < 0) throw new InvalidArgumentError(`"${text}" is not a number ≥ 0`);
   return n;
 }
 
@@ -162,6 +175,36 @@ function buildProgram(setExit: (code: number) => void) {
         run.diagnostics.some((d) => d.severity === "error");
       setExit(failed ? EXIT_SET_ASIDE : EXIT_CLEAN);
     });
+  program.command("synth")
+    .description(
+      "Write a deterministic synthetic fleet in the network format (invented names and data, " +
+        "realistic radial MV feeders) for benchmarks and large tests.",
+    )
+    .requiredOption("--feeders <n>", "number of feeders", parsePositive)
+    .requiredOption("--buses <n>", "buses per feeder", parsePositive)
+    .option("--seed <n>", "seed of the generator", parseCount, 1)
+    .option(
+      "--dg-penetration <share>",
+      "generation as a share of peak demand",
+      parseFloatOption,
+      0.6,
+    )
+    .requiredOption("--out <dir>", "network folder to write")
+    .action(async (options) => {
+      const bytes = await writeSynthFleet({
+        feeders: options.feeders,
+        busesPerFeeder: options.buses,
+        seed: options.seed,
+        dgPenetration: options.dgPenetration,
+      }, options.out);
+      console.log(
+        `Wrote ${options.feeders} synthetic feeders of ${options.buses} buses (${
+          (bytes / 1e6).toFixed(1)
+        } MB) to ${options.out}`,
+      );
+      setExit(EXIT_CLEAN);
+    });
+
   program.command("merge")
     .description(
       "Combine the run folders of every shard of one study (study --shard i/N) into one run " +

@@ -17,6 +17,7 @@ import type { PhaseMatrix } from "./line_impedance.ts";
 import type { Network, Transformer } from "./network.ts";
 import { phaseLetters } from "./phases.ts";
 import { transformerRatio } from "./transformer_ratio.ts";
+import { elementsOn, indexNetwork, type NetworkIndex } from "./network_index.ts";
 import type { EdgeRef, FeederTopology } from "./split_feeders.ts";
 
 const SQRT3 = Math.sqrt(3);
@@ -31,10 +32,14 @@ export function transformerImpedanceOhm(
   return { rOhm: r, xOhm: Math.sqrt(Math.max(z * z - r * r, 0)) };
 }
 
-export function compileFeeder(network: Network, topo: FeederTopology): FeederForm {
+export function compileFeeder(
+  network: Network,
+  topo: FeederTopology,
+  index: NetworkIndex = indexNetwork(network),
+): FeederForm {
   const nBus = topo.busIds.length;
   const busIndex = new Map(topo.busIds.map((b, i) => [b.toLowerCase(), i]));
-  const busById = new Map(network.buses.map((b) => [b.id.toLowerCase(), b]));
+  const { busById, typeById, fuseById, relaysByDevice } = index;
   const vnKv = new Float64Array(nBus);
   const customers = new Int32Array(nBus);
   topo.busIds.forEach((id, i) => {
@@ -63,15 +68,8 @@ export function compileFeeder(network: Network, topo: FeederTopology): FeederFor
   const bPh = new Float64Array(9 * nBranch);
   const cable = new Uint8Array(nBranch).fill(255);
   const conductorClass: (string | null)[] = new Array(nBranch).fill(null);
-  const typeById = new Map(network.lineTypes.map((t) => [t.id.toLowerCase(), t]));
   const transformers: FormTransformer[] = [];
   const devices: FormDevice[] = [];
-  const relaysByDevice = new Map<string, typeof network.relays[number][]>();
-  for (const r of network.relays) {
-    const k = r.deviceId.toLowerCase();
-    relaysByDevice.set(k, [...(relaysByDevice.get(k) ?? []), r]);
-  }
-  const fuseById = new Map(network.fuseCurves.map((f) => [f.id.toLowerCase(), f]));
   const heads = new Set(topo.headDeviceIds.map((h) => h.toLowerCase()));
 
   refs.forEach(({ ref, from, to }, k) => {
@@ -147,7 +145,7 @@ export function compileFeeder(network: Network, topo: FeederTopology): FeederFor
         ...(s.breakingCurrentA === undefined ? {} : { breakingCurrentA: s.breakingCurrentA }),
         ...(s.makingCurrentA === undefined ? {} : { makingCurrentA: s.makingCurrentA }),
         ...(fuse === undefined ? {} : { fuseCurve: fuse }),
-        relays: relaysByDevice.get(s.id.toLowerCase()) ?? [],
+        relays: [...(relaysByDevice.get(s.id.toLowerCase()) ?? [])],
         fastShots: s.fastShots,
         delayedShots: s.delayedShots,
       });
@@ -167,12 +165,8 @@ export function compileFeeder(network: Network, topo: FeederTopology): FeederFor
     distanceKm[k] = distanceKm[p]! + lengthKm[k - 1]!;
   }
 
-  const src = network.sources.find((s) => s.id === topo.sourceId)!;
-  const onFeeder = <T extends { busId: string }>(items: readonly T[]) =>
-    items.filter((x) => busIndex.has(x.busId.toLowerCase()));
-  const loads = onFeeder(network.loads);
-  const gens = onFeeder(network.generators);
-  const shunts = onFeeder(network.shunts);
+  const src = index.sourceById.get(topo.sourceId.toLowerCase())!;
+  const { loads, generators: gens, shunts } = elementsOn(index, topo.busIds);
   const curveIds = new Set(
     gens.flatMap((g) => ("curveId" in g.reactive ? [g.reactive.curveId.toLowerCase()] : [])),
   );

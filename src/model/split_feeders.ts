@@ -10,6 +10,7 @@
 import { type Diagnostic, makeDiagnostic } from "./diagnostic.ts";
 import type { Network, Taint } from "./network.ts";
 import { locateField } from "./locate.ts";
+import { indexNetwork, type NetworkIndex } from "./network_index.ts";
 import { phaseLetters, phasesWithin } from "./phases.ts";
 import {
   buildGraph,
@@ -68,7 +69,10 @@ export interface SplitFeedersResult {
   readonly diagnostics: readonly Diagnostic[];
 }
 
-export function splitFeeders(network: Network): SplitFeedersResult {
+export function splitFeeders(
+  network: Network,
+  index: NetworkIndex = indexNetwork(network),
+): SplitFeedersResult {
   const diagnostics: Diagnostic[] = [];
   const g = buildGraph(network);
   const { ids, edges, adj } = g;
@@ -93,6 +97,9 @@ export function splitFeeders(network: Network): SplitFeedersResult {
 
   // 2. Components of the non-substation buses (closed edges, heads excluded).
   const { comp, count: nComp } = labelComponents(g, subOf);
+
+  const membersOf: number[][] = Array.from({ length: nComp }, () => []);
+  for (let v = 0; v < n; v++) if (comp[v]! >= 0) membersOf[comp[v]!]!.push(v);
 
   // 3. Heads per component.
   const unfedHeads: { edge: Edge; reason: Taint }[] = [];
@@ -190,7 +197,13 @@ export function splitFeeders(network: Network): SplitFeedersResult {
       }
       reasons.push({ code: "topology.unfed", file: "", line: 0 });
       feeders.push(
-        unorderedFeeder(feederId, feederIds, heads.map((h) => h.edge.id), ids, comp, c, reasons),
+        unorderedFeeder(
+          feederId,
+          feederIds,
+          heads.map((h) => h.edge.id),
+          membersOf[c]!.map((v) => ids[v]!),
+          reasons,
+        ),
       );
       continue;
     }
@@ -209,25 +222,32 @@ export function splitFeeders(network: Network): SplitFeedersResult {
         { at: bad.at === undefined ? undefined : locateField(network.headers, bad.at, "phases") },
       ));
     }
-    const posOf = new Map(ordered.busIds.map((b, i) => [b.toLowerCase(), i]));
-    for (const el of attachedElements(network)) {
-      const i = posOf.get(el.busId.toLowerCase());
-      if (i === undefined) continue;
+    ordered.busIds.forEach((busId, i) => {
       const available = ordered.busPhases[i]!;
-      if (!phasesWithin(el.phases, available)) {
-        flag(makeDiagnostic(
-          "phase.upstream",
-          "error",
-          `${el.kind} "${el.id}" has phases "${
-            phaseLetters(el.phases)
-          }" but bus "${el.busId}" has only "${phaseLetters(available)}"`,
-          { at: locateField(network.headers, el.at, "phases") },
-        ));
+      const at = index.atBus.get(busId.toLowerCase());
+      if (at === undefined) return;
+      for (
+        const [kind, els] of [["Load", at.loads], ["Generator", at.generators], [
+          "Shunt",
+          at.shunts,
+        ]] as const
+      ) {
+        for (const el of els) {
+          if (phasesWithin(el.phases, available)) continue;
+          flag(makeDiagnostic(
+            "phase.upstream",
+            "error",
+            `${kind} "${el.id}" has phases "${
+              phaseLetters(el.phases)
+            }" but bus "${el.busId}" has only "${phaseLetters(available)}"`,
+            { at: locateField(network.headers, el.at, "phases") },
+          ));
+        }
       }
-    }
+    });
     // The feeder column against connectivity.
     for (let i = ordered.substationBusCount; i < ordered.busIds.length; i++) {
-      const bus = network.buses[g.index(ordered.busIds[i]!)!];
+      const bus = index.busById.get(ordered.busIds[i]!.toLowerCase());
       const hint = bus?.feederHint;
       if (bus === undefined || hint === undefined) continue;
       if (!feederIds.some((f) => f.toLowerCase() === hint.toLowerCase())) {
@@ -261,26 +281,32 @@ export function splitFeeders(network: Network): SplitFeedersResult {
   }
 
   for (const { edge, reason } of unfedHeads) {
-    feeders.push(unorderedFeeder(edge.head!, [edge.head!], [edge.id], ids, comp, -2, [reason]));
+    feeders.push(unorderedFeeder(edge.head!, [edge.head!], [edge.id], [], [reason]));
   }
-  // Loads and generators that no feeder reaches are never studied: say so.
-  for (const el of attachedElements(network)) {
-    const v = g.index(el.busId);
-    if (v === undefined || subOf[v]! < 0) continue;
-    diagnostics.push(makeDiagnostic(
-      "topology.no_feeder",
-      "warning",
-      `${el.kind} "${el.id}" at bus "${el.busId}" is reached from a grid ` +
-        "source without passing a feeder-head device; it belongs to no feeder and is not studied",
-      { at: locateField(network.headers, el.at, "bus") },
-    ));
+  // Loads, generators and shunts that no feeder reaches are never studied: say so.
+  for (
+    const [kind, els] of [["Load", network.loads], ["Generator", network.generators], [
+      "Shunt",
+      network.shunts,
+    ]] as const
+  ) {
+    for (const el of els) {
+      const v = g.index(el.busId);
+      if (v === undefined || subOf[v]! < 0) continue;
+      diagnostics.push(makeDiagnostic(
+        "topology.no_feeder",
+        "warning",
+        `${kind} "${el.id}" at bus "${el.busId}" is reached from a grid source without passing a ` +
+          "feeder-head device; it belongs to no feeder and is not studied",
+        { at: locateField(network.headers, el.at, "bus") },
+      ));
+    }
   }
 
   const islands: Island[] = islandComps.map((c) => {
     const members: string[] = [];
     const nextTo: { switchId: string; feederId: string }[] = [];
-    for (let v = 0; v < n; v++) {
-      if (comp[v] !== c) continue;
+    for (const v of membersOf[c]!) {
       members.push(ids[v]!);
       for (const ei of adj[v]!) {
         const e = edges[ei]!;
@@ -293,7 +319,9 @@ export function splitFeeders(network: Network): SplitFeedersResult {
         }
       }
     }
-    const real = members.map((m) => network.buses[g.index(m)!]).filter((b) => b !== undefined);
+    const real = members.map((m) => index.busById.get(m.toLowerCase())).filter((b) =>
+      b !== undefined
+    );
     const first = real[0];
     // Buses whose own rows were rejected are already reported; an island of only those
     // would repeat the row errors.
@@ -327,12 +355,9 @@ function unorderedFeeder(
   feederId: string,
   feederIds: string[],
   headDeviceIds: string[],
-  ids: readonly string[],
-  comp: Int32Array,
-  c: number,
+  busIds: string[],
   reasons: Taint[],
 ): FeederTopology {
-  const busIds = ids.filter((_, v) => comp[v] === c);
   return {
     feederId,
     feederIds,
@@ -349,13 +374,4 @@ function unorderedFeeder(
     setAside: true,
     reasons: dedupeReasons(reasons),
   };
-}
-
-/** Loads, generators and shunts with a label for messages. */
-function attachedElements(network: Network) {
-  return [
-    ...network.loads.map((x) => ({ ...x, kind: "Load" })),
-    ...network.generators.map((x) => ({ ...x, kind: "Generator" })),
-    ...network.shunts.map((x) => ({ ...x, kind: "Shunt" })),
-  ];
 }

@@ -4,7 +4,8 @@
  * roughly at or below its nominal voltage in kV; far above that suggests a unit error).
  */
 import { type Diagnostic, makeDiagnostic } from "./diagnostic.ts";
-import type { Network, Taint } from "./network.ts";
+import type { SwitchDevice, Taint } from "./network.ts";
+import { elementsOn, type NetworkIndex } from "./network_index.ts";
 import type { FeederForm } from "./feeder_form.ts";
 import { arrayMax } from "./array_extremes.ts";
 import type { FeederTopology } from "./split_feeders.ts";
@@ -40,22 +41,26 @@ export interface FeederSummary {
 }
 
 export function summarizeFeeder(
-  network: Network,
+  index: NetworkIndex,
   topo: FeederTopology,
   form: FeederForm | undefined,
 ): { value: FeederSummary; diagnostics: Diagnostic[] } {
   const own = new Set(topo.busIds.slice(topo.substationBusCount).map((b) => b.toLowerCase()));
   const on = (id: string) => own.has(id.toLowerCase());
-  const busById = new Map(network.buses.map((b) => [b.id.toLowerCase(), b]));
-  const typeById = new Map(network.lineTypes.map((t) => [t.id.toLowerCase(), t]));
+  const { busById, typeById } = index;
   let lineKm = 0, cableKm = 0;
-  for (const l of network.lines) {
-    if (!l.inService || !on(l.fromBusId) || !on(l.toBusId)) continue;
-    lineKm += l.lengthKm;
-    if (typeById.get(l.typeId.toLowerCase())?.construction === "cable") cableKm += l.lengthKm;
+  const switches: SwitchDevice[] = [];
+  for (const b of topo.busIds) {
+    const at = index.atBus.get(b.toLowerCase());
+    if (at === undefined) continue;
+    for (const l of at.linesFrom) {
+      if (!l.inService || !on(l.fromBusId) || !on(l.toBusId)) continue;
+      lineKm += l.lengthKm;
+      if (typeById.get(l.typeId.toLowerCase())?.construction === "cable") cableKm += l.lengthKm;
+    }
+    for (const sw of at.switchesFrom) if (on(sw.toBusId)) switches.push(sw);
   }
-  const loads = network.loads.filter((l) => on(l.busId));
-  const gens = network.generators.filter((g) => on(g.busId));
+  const { loads, generators: gens } = elementsOn(index, [...own]);
   const byKind = { converter: 0, synchronous: 0, induction: 0 };
   for (const g of gens) byKind[g.kind] += g.pKw;
   const firstFeederBus = topo.busIds[topo.substationBusCount];
@@ -90,16 +95,15 @@ export function summarizeFeeder(
     loops: topo.loopEdges.length,
     openPoints: topo.openPoints.length,
     protectiveDevices:
-      network.switches.filter((s) =>
-        (s.kind === "breaker" || s.kind === "recloser" || s.kind === "fuse") &&
-        on(s.toBusId) && s.normallyClosed
+      switches.filter((s) =>
+        (s.kind === "breaker" || s.kind === "recloser" || s.kind === "fuse") && s.normallyClosed
       ).length,
     reasons: topo.reasons,
   };
   const diagnostics: Diagnostic[] = [];
   if (vnKv !== null && !topo.setAside) {
     const sMva = Math.hypot(peakLoadKw, peakLoadKvar) / 1000;
-    const head = network.switches.find((s) => s.id === topo.headDeviceIds[0]);
+    const head = index.switchById.get((topo.headDeviceIds[0] ?? "").toLowerCase());
     const at = head?.at;
     if (reachKm !== null && reachKm > PLAUSIBILITY_FACTOR * vnKv) {
       diagnostics.push(makeDiagnostic(

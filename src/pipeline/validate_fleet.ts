@@ -7,6 +7,7 @@ import { readNetworkTables, type TableSource } from "../ingest/read_network.ts";
 import { buildNetwork } from "../model/build_network.ts";
 import { type Island, splitFeeders } from "../model/split_feeders.ts";
 import { compileFeeder } from "../model/compile_feeder.ts";
+import { indexNetwork } from "../model/network_index.ts";
 import type { FeederForm } from "../model/feeder_form.ts";
 import { type FeederSummary, summarizeFeeder } from "../model/summarize_feeder.ts";
 
@@ -23,14 +24,15 @@ export async function validateFleet(
 ): Promise<{ value: ValidatedFleet; diagnostics: Diagnostic[] }> {
   const tables = await readNetworkTables(source);
   const network = buildNetwork(tables.value);
-  const topology = splitFeeders(network.value);
+  const index = indexNetwork(network.value);
+  const topology = splitFeeders(network.value, index);
   const forms: FeederForm[] = [];
   const feeders: FeederSummary[] = [];
   const later: Diagnostic[] = [];
   for (const topo of topology.value.feeders) {
-    const form = topo.setAside ? undefined : compileFeeder(network.value, topo);
+    const form = topo.setAside ? undefined : compileFeeder(network.value, topo, index);
     if (form) forms.push(form);
-    const summary = summarizeFeeder(network.value, topo, form);
+    const summary = summarizeFeeder(index, topo, form);
     feeders.push(summary.value);
     later.push(...summary.diagnostics);
   }

@@ -4,10 +4,11 @@
  * describes no real network.
  *
  * Shape of the fleet (rules of the trade are marked "common practice"):
- * - Substations of 6–10 feeders (8 on average): a 110 kV grid source, one 40 MVA 110/20 kV
- *   YNyn0 transformer with an on-load tap changer holding a set-point of 1.00–1.03 pu and its
- *   20 kV star point earthed through 15–40 Ω (resistance-earthed MV, common practice), and
- *   a 20 kV busbar. YNd11 is not used: the format has no earthing transformer, so a delta
+ * - Substations of 6–10 feeders (8 on average; the last one of a fleet may have 4 or 5, and
+ *   a fleet of fewer than 6 feeders is one substation): a 110 kV grid source, one 40 MVA
+ *   110/20 kV YNyn0 transformer with an on-load tap changer holding a set-point of
+ *   1.00–1.03 pu and its 20 kV star point earthed through 15–40 Ω (resistance-earthed MV,
+ *   common practice), and a 20 kV busbar. YNd11 is not used: the format has no earthing transformer, so a delta
  *   MV winding would leave the 20 kV network unearthed, at odds with the earth stages.
  * - Each feeder is a radial 20 kV tree behind a head breaker with a relay (IEC standard
  *   inverse phase and earth stages and a definite-time or instantaneous high-set stage):
@@ -17,7 +18,9 @@
  * - Feeder kinds: urban (85–100 % cable), mixed (30–65 %) and rural (3–20 %, overhead
  *   beyond a cable exit from the substation, common practice). Conductors are sized for the
  *   downstream load or generation at ≤ 75 % of rating and never grow downstream: the trunk
- *   keeps the head size to mid-trunk and steps down twice towards its end.
+ *   keeps the head size to mid-trunk and steps down twice towards its end. A feeder planned
+ *   for much generation gets a larger head cable, and generation that even the largest could
+ *   not carry back at 85 % of its rating is left out (a connection study would refuse it).
  * - Reach is 3–22 km by kind and never above 1.2 km per kV (24 km at 20 kV; common practice:
  *   a feeder's reach in km stays near its nominal kV).
  * - Peak loading of the head section is 30–70 % of its rating (a few in 100 feeders 85–100 %,
@@ -39,7 +42,7 @@
  * The fleet is streamed: the generator yields CSV text chunk by chunk, so a fleet of
  * 10 million buses never sits in memory. Chunks of different files interleave; the chunks of
  * one file come in order, its first chunk starts with the header, and every chunk is at most
- * CHUNK_CHARS characters plus one row (ASCII, so characters are bytes).
+ * CHUNK_CHARS characters plus a few rows, far below 1 MB (ASCII, so characters are bytes).
  */
 
 export interface SynthOptions {
@@ -59,7 +62,7 @@ export interface FleetChunk {
   readonly text: string;
 }
 
-/** A buffer is yielded once it reaches this many characters (one row may follow). */
+/** A buffer is yielded once it reaches this many characters (a few rows may follow). */
 export const CHUNK_CHARS = 256 * 1024;
 
 const MV_KV = 20;
@@ -219,7 +222,7 @@ const URBAN = 0, MIXED = 1, RURAL = 2;
 const EDGE_HEAD = 0, EDGE_LINE = 1, EDGE_RECLOSER = 2, EDGE_LATERAL_SWITCH = 3;
 const ROLE_TRUNK = 0, ROLE_LATERAL = 1, ROLE_SPUR = 2;
 const MODE_UNITY = 0, MODE_VOLT_VAR = 1, MODE_PF_OF_P = 2;
-const DISCONNECTOR = 255;
+const DISCONNECTOR = 254, DISCONNECTOR_630 = 255;
 
 interface FeederPlan {
   readonly index: number;
@@ -267,6 +270,7 @@ interface FeederModel {
   scratch: Int32Array;
   scratch2: Int32Array;
   // results
+  headType: number;
   peakKw: number;
   peakKvar: number;
   dgKw: number;
@@ -302,6 +306,7 @@ function allocateModel(cap: number): FeederModel {
     acc: new Float64Array(cap),
     scratch: new Int32Array(cap),
     scratch2: new Int32Array(cap),
+    headType: C_AL240,
     peakKw: 0,
     peakKvar: 0,
     dgKw: 0,
@@ -388,7 +393,7 @@ function buildFeeder(
   m: FeederModel,
   plan: FeederPlan,
   n: number,
-  dgKw: number,
+  dgTargetKw: number,
   rnd: Random,
 ): void {
   let nb = 0;
@@ -515,6 +520,21 @@ function buildFeeder(
       : Math.max(1, Math.round(p / plan.kwPerCustomer));
   }
 
+  // A feeder planned for much generation gets a larger head cable; what even the largest
+  // cannot carry back at 85 % of its rating (net of the minimum demand) is not installed.
+  m.headType = plan.headType;
+  let dgKw = dgTargetKw;
+  if (dgKw > 0) {
+    let minKw = 0;
+    for (let i = 0; i < nLoads; i++) {
+      const k = loadBuses[i]!;
+      minKw += m.loadPKw[k]! * m.minShare[k]!;
+    }
+    const needA = (dgKw - minKw) / (SQRT3 * MV_KV) / 0.85;
+    while (TYPE_AMP[m.headType]! < needA && m.headType < C_AL300) m.headType++;
+    dgKw = Math.min(dgKw, 0.85 * TYPE_AMP[m.headType]! * SQRT3 * MV_KV + minKw);
+  }
+
   // PV at a share of the load buses (partial shuffle), parks among rooftop systems.
   if (dgKw > 0) {
     const share = plan.highShare ? uniform(rnd, 0.25, 0.4) : uniform(rnd, 0.08, 0.2);
@@ -557,9 +577,9 @@ function buildFeeder(
 
   // Conductors: sized for the downstream load or generation, trunk floors, never larger
   // than the section upstream (the taper).
-  const headAmp = TYPE_AMP[plan.headType]!;
+  const headAmp = TYPE_AMP[m.headType]!;
   m.upAmp[0] = Infinity;
-  m.type[0] = plan.headType;
+  m.type[0] = m.headType;
   for (let k = 1; k < nb; k++) {
     const p = parent[k]!;
     if (m.edge[k] !== EDGE_LINE) {
@@ -569,7 +589,7 @@ function buildFeeder(
     }
     let t: number;
     if (p === 0) {
-      t = plan.headType;
+      t = m.headType;
     } else {
       const iA = Math.max(Math.hypot(pDown[k]!, qDown[k]!), gDown[k]!) / (SQRT3 * MV_KV);
       const role = m.role[k]!, x = m.pos[k]!;
@@ -634,7 +654,7 @@ function buildFeeder(
   for (let k = 1; k < nb; k++) {
     if (m.edge[k] !== EDGE_LATERAL_SWITCH) continue;
     const iA = Math.max(Math.hypot(pDown[k]!, qDown[k]!), gDown[k]!) / (SQRT3 * MV_KV);
-    let r = DISCONNECTOR;
+    let r = 1.5 * iA > 400 ? DISCONNECTOR_630 : DISCONNECTOR;
     for (let i = FUSE_RATINGS.length - 1; i >= 0; i--) if (FUSE_RATINGS[i]! >= 2 * iA) r = i;
     m.fuse[k] = r;
   }
@@ -655,17 +675,17 @@ function sig3(x: number): number {
 
 const pad = (k: number, width: number) => String(k).padStart(width, "0");
 
-/** Builds every feeder of one substation and writes its rows into the buffers. */
+/** The per-file text buffers of the stream. */
 interface Writer {
   /** Appends a row (with its newline); true when the buffer should be yielded. */
   put(table: number, row: string): boolean;
   take(table: number): FleetChunk;
 }
 
+/** Writes one built feeder's rows, yielding every buffer that fills up. */
 function* writeFeeder(
   out: Writer,
   m: FeederModel,
-  plan: FeederPlan,
   feederId: string,
   mvBus: string,
   busWidth: number,
@@ -675,7 +695,7 @@ function* writeFeeder(
   const ids: string[] = new Array(m.nBus);
   const pre = `${feederId}-`;
   for (let k = 0; k < m.nBus; k++) ids[k] = `${pre}B${pad(k + 1, busWidth)}`;
-  const headAmp = TYPE_AMP[plan.headType]!;
+  const headAmp = TYPE_AMP[m.headType]!;
 
   // Head breaker and its relay.
   const iPeakA = Math.hypot(m.peakKw, m.peakKvar) / (SQRT3 * MV_KV);
@@ -731,6 +751,8 @@ function* writeFeeder(
       const r = m.fuse[k]!;
       const row = r === DISCONNECTOR
         ? `${pre}DS${num},${ids[m.parent[k]!]},${id},disconnector,closed,,400,,,,,\n`
+        : r === DISCONNECTOR_630
+        ? `${pre}DS${num},${ids[m.parent[k]!]},${id},disconnector,closed,,630,,,,,\n`
         : `${pre}FU${num},${ids[m.parent[k]!]},${id},fuse,closed,,${FUSE_RATINGS[r]},8,,SYN-EXP-${
           FUSE_RATINGS[r]
         },,\n`;
@@ -874,7 +896,7 @@ export function* synthesizeFleet(o: SynthOptions): Generator<FleetChunk> {
 
     const feederIds = plans.map((p) => `SYN-${pad(p.index + 1, feederWidth)}`);
     for (let j = 0; j < k; j++) {
-      yield* writeFeeder(out, pool[j]!, plans[j]!, feederIds[j]!, mv, busWidth, dgScale, rnds[j]!);
+      yield* writeFeeder(out, pool[j]!, feederIds[j]!, mv, busWidth, dgScale, rnds[j]!);
     }
 
     // Normally-open ties between neighbours: a lateral end of one, the trunk end of the next.

@@ -193,6 +193,20 @@ Deno.test("studyFeeder() solves every case of every synthetic feeder", () => {
   }
 });
 
+Deno.test("studyFeeder() finds generation-caused voltage change on some synthetic feeders only", () => {
+  const withChange = studies.filter((s) =>
+    s.findings.some((f) => f.code === "voltage.dg_change" && f.caseId === "min-full-dg")
+  );
+  assert(withChange.length >= 1 && withChange.length < studies.length, `${withChange.length}`);
+  // No feeder leaves the voltage band at peak demand.
+  for (const s of studies) {
+    const peak = s.findings.filter((f) =>
+      f.caseId === "peak-no-dg" && f.code.startsWith("voltage.")
+    );
+    assertEquals(peak, [], s.feederId);
+  }
+});
+
 Deno.test("studyFeeder() loads the synthetic head sections moderately at peak", () => {
   const headLoading = studies.map((s) => {
     const peak = s.cases.find((c) => c.caseId === "peak-no-dg")!;
