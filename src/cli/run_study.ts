@@ -129,168 +129,180 @@ export async function runStudy(
       startedAt,
     });
     const t0 = performance.now();
-    const fleet = shareOf(await validateFleet(folderSource(networkDir)), options.shard);
-    const validateMs = performance.now() - t0;
-    let solveMs = 0;
-    const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
-    const records = new Map<string, FeederRecord>();
-    const diagnostics: Diagnostic[] = [...fleet.diagnostics];
-    const fileOf = (id: string) => join(outAbs, "feeders", feederFileName(id));
-    await Deno.mkdir(join(outAbs, "feeders"), { recursive: true });
-    const keep = (r: FeederRecord) => {
-      records.set(r.feederId, r);
-      if (store !== undefined && runId !== undefined) {
-        store.recordFeeder(runId, configHash, VERSION, r);
-      }
-    };
-    for (const f of fleet.value.feeders) {
-      if (f.status !== "set_aside") continue;
-      await writeFileAtomic(fileOf(f.feederId), feederJson(f, undefined));
-      keep(toRecord(f.feederId, "", fileOf(f.feederId), undefined, "set_aside"));
-    }
-
-    // What to compute, what to take from the store.
-    const only = options.onlyFeeders === undefined
-      ? undefined
-      : new Set(options.onlyFeeders.map((x) => x.toLowerCase()));
-    const useCache = store !== undefined && (options.useCache ?? true);
-    const toStudy: { form: FeederForm; hash: string }[] = [];
-    let cacheHits = 0;
-    for (const form of fleet.value.forms) {
-      const hash = await hashFeederForm(form);
-      const id = form.feederId;
-      const earlier = only !== undefined && !only.has(id.toLowerCase())
-        ? previous?.feeders.get(id)
-        : only === undefined && useCache
-        ? store!.findCached(id, hash, configHash, VERSION)
-        : undefined;
-      const text = earlier === undefined ? undefined : await readIfPresent(earlier.resultFile);
-      if (earlier !== undefined && text !== undefined) {
-        if (resolve(earlier.resultFile) !== fileOf(id)) await writeFileAtomic(fileOf(id), text);
-        keep({ ...earlier, resultFile: fileOf(id) });
-        cacheHits++;
-        continue;
-      }
-      toStudy.push({ form, hash });
-    }
-    if (only !== undefined) {
-      const known = new Set(fleet.value.feeders.map((f) => f.feederId.toLowerCase()));
-      for (const id of options.onlyFeeders!) {
-        if (!known.has(id.toLowerCase())) throw new Error(`feeder "${id}" is not in this network`);
-      }
-    }
-
-    const hashes = new Map(toStudy.map((t) => [t.form.feederId, t.hash]));
-    const total = toStudy.length;
-    let done = 0, failedToRun = 0;
-    const accept = async (outcome: PoolOutcome<FeederStudy>) => {
-      done++;
-      const id = outcome.id;
-      if (outcome.ok) {
-        solveMs += outcome.workMs;
-        await writeFileAtomic(fileOf(id), feederJson(summaries.get(id)!, outcome.value));
-        keep(toRecord(id, hashes.get(id)!, fileOf(id), outcome.value, outcome.value.status));
-      } else {
-        failedToRun++;
-        const failure = makeDiagnostic(
-          "study.failed",
-          "error",
-          `Feeder "${id}" could not be studied after ${outcome.attempts} attempt(s): ${outcome.reason}`,
-          { feederId: id },
-        );
-        await writeFileAtomic(
-          fileOf(id),
-          feederJson(summaries.get(id)!, undefined, outcome.reason),
-        );
-        keep({
-          ...toRecord(id, hashes.get(id)!, fileOf(id), undefined, "failed"),
-          diagnostics: [failure],
-        });
-      }
-      options.onProgress?.(done, total, failedToRun);
-    };
-    if (options.workers <= 0 || total === 0) {
-      for (const { form } of toStudy) {
-        const t = performance.now();
-        const value = studyFeeder(form, config);
-        await accept({
-          id: form.feederId,
-          ok: true,
-          value,
-          attempts: 1,
-          workMs: performance.now() - t,
-        });
-      }
-    } else {
-      const tasks = function* (): Generator<PoolTask<FeederForm>> {
-        for (const { form } of toStudy) {
-          yield { id: form.feederId, payload: form, transfer: listTransferables(form) };
+    // Peak resident memory of the process (workers are threads of it), sampled.
+    let peakRss = Deno.memoryUsage().rss;
+    const sampler = setInterval(() => {
+      peakRss = Math.max(peakRss, Deno.memoryUsage().rss);
+    }, 100);
+    try {
+      const fleet = shareOf(await validateFleet(folderSource(networkDir)), options.shard);
+      const validateMs = performance.now() - t0;
+      let solveMs = 0;
+      const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
+      const records = new Map<string, FeederRecord>();
+      const diagnostics: Diagnostic[] = [...fleet.diagnostics];
+      const fileOf = (id: string) => join(outAbs, "feeders", feederFileName(id));
+      await Deno.mkdir(join(outAbs, "feeders"), { recursive: true });
+      const keep = (r: FeederRecord) => {
+        records.set(r.feederId, r);
+        if (store !== undefined && runId !== undefined) {
+          store.recordFeeder(runId, configHash, VERSION, r);
         }
       };
-      const init: StudyWorkerInit = {
-        settings: config,
-        ...(options.faults ? { faults: options.faults } : {}),
-      };
-      await runPool<FeederForm, FeederStudy>(
-        tasks(),
-        { workerUrl: WORKER_URL, workers: options.workers, timeoutMs: options.timeoutMs, init },
-        accept,
-      );
-    }
-
-    const all = [...records.values()];
-    const findings = all.flatMap((r) => r.findings).sort(compareFindings);
-    diagnostics.push(...all.flatMap((r) => r.diagnostics));
-    diagnostics.sort(compareDiagnostics);
-    await writeFileAtomic(join(outAbs, "findings.csv"), findingsCsv(findings));
-    await writeFileAtomic(join(outAbs, "diagnostics.csv"), diagnosticsCsv(diagnostics));
-    const count = <T>(xs: readonly T[], key: (x: T) => string) => {
-      const out: Record<string, number> = {};
-      for (const x of [...xs].sort((a, b) => (key(a) < key(b) ? -1 : 1))) {
-        out[key(x)] = (out[key(x)] ?? 0) + 1;
+      for (const f of fleet.value.feeders) {
+        if (f.status !== "set_aside") continue;
+        await writeFileAtomic(fileOf(f.feederId), feederJson(f, undefined));
+        keep(toRecord(f.feederId, "", fileOf(f.feederId), undefined, "set_aside"));
       }
-      return out;
-    };
-    const record: RunRecord = {
-      ...(options.shard === undefined ? {} : { shard: options.shard }),
-      tool: "gridtriage",
-      version: VERSION,
-      command: "study",
-      network: networkDir,
-      pipeline: pipelinePath,
-      pipelineName: config.name ?? null,
-      inputHash,
-      configHash,
-      startedAt,
-      finishedAt: new Date().toISOString(),
-      timing: {
-        wallMs: Math.round(performance.now() - t0),
-        validateMs: Math.round(validateMs),
-        solveMs: Math.round(solveMs),
-        workers: options.workers,
-        cacheHits,
-      },
-      counts: {
-        feeders: fleet.value.feeders.length,
-        studied: all.filter((r) => r.status === "studied").length,
-        failed: all.filter((r) => r.status === "failed").length,
-        setAside: all.filter((r) => r.status === "set_aside").length,
-        findings: count(findings, (f) => f.severity),
-        diagnostics: count(diagnostics, (d) => d.severity),
-      },
-    };
-    await writeFileAtomic(join(outAbs, "run.json"), runJson(record));
-    if (store !== undefined && runId !== undefined) {
-      store.finishRun(runId, record.finishedAt, record.counts);
+
+      // What to compute, what to take from the store.
+      const only = options.onlyFeeders === undefined
+        ? undefined
+        : new Set(options.onlyFeeders.map((x) => x.toLowerCase()));
+      const useCache = store !== undefined && (options.useCache ?? true);
+      const toStudy: { form: FeederForm; hash: string }[] = [];
+      let cacheHits = 0;
+      for (const form of fleet.value.forms) {
+        const hash = await hashFeederForm(form);
+        const id = form.feederId;
+        const earlier = only !== undefined && !only.has(id.toLowerCase())
+          ? previous?.feeders.get(id)
+          : only === undefined && useCache
+          ? store!.findCached(id, hash, configHash, VERSION)
+          : undefined;
+        const text = earlier === undefined ? undefined : await readIfPresent(earlier.resultFile);
+        if (earlier !== undefined && text !== undefined) {
+          if (resolve(earlier.resultFile) !== fileOf(id)) await writeFileAtomic(fileOf(id), text);
+          keep({ ...earlier, resultFile: fileOf(id) });
+          cacheHits++;
+          continue;
+        }
+        toStudy.push({ form, hash });
+      }
+      if (only !== undefined) {
+        const known = new Set(fleet.value.feeders.map((f) => f.feederId.toLowerCase()));
+        for (const id of options.onlyFeeders!) {
+          if (!known.has(id.toLowerCase())) {
+            throw new Error(`feeder "${id}" is not in this network`);
+          }
+        }
+      }
+
+      const hashes = new Map(toStudy.map((t) => [t.form.feederId, t.hash]));
+      const total = toStudy.length;
+      let done = 0, failedToRun = 0;
+      const accept = async (outcome: PoolOutcome<FeederStudy>) => {
+        done++;
+        const id = outcome.id;
+        if (outcome.ok) {
+          solveMs += outcome.workMs;
+          await writeFileAtomic(fileOf(id), feederJson(summaries.get(id)!, outcome.value));
+          keep(toRecord(id, hashes.get(id)!, fileOf(id), outcome.value, outcome.value.status));
+        } else {
+          failedToRun++;
+          const failure = makeDiagnostic(
+            "study.failed",
+            "error",
+            `Feeder "${id}" could not be studied after ${outcome.attempts} attempt(s): ${outcome.reason}`,
+            { feederId: id },
+          );
+          await writeFileAtomic(
+            fileOf(id),
+            feederJson(summaries.get(id)!, undefined, outcome.reason),
+          );
+          keep({
+            ...toRecord(id, hashes.get(id)!, fileOf(id), undefined, "failed"),
+            diagnostics: [failure],
+          });
+        }
+        options.onProgress?.(done, total, failedToRun);
+      };
+      if (options.workers <= 0 || total === 0) {
+        for (const { form } of toStudy) {
+          const t = performance.now();
+          const value = studyFeeder(form, config);
+          await accept({
+            id: form.feederId,
+            ok: true,
+            value,
+            attempts: 1,
+            workMs: performance.now() - t,
+          });
+        }
+      } else {
+        const tasks = function* (): Generator<PoolTask<FeederForm>> {
+          for (const { form } of toStudy) {
+            yield { id: form.feederId, payload: form, transfer: listTransferables(form) };
+          }
+        };
+        const init: StudyWorkerInit = {
+          settings: config,
+          ...(options.faults ? { faults: options.faults } : {}),
+        };
+        await runPool<FeederForm, FeederStudy>(
+          tasks(),
+          { workerUrl: WORKER_URL, workers: options.workers, timeoutMs: options.timeoutMs, init },
+          accept,
+        );
+      }
+
+      const all = [...records.values()];
+      const findings = all.flatMap((r) => r.findings).sort(compareFindings);
+      diagnostics.push(...all.flatMap((r) => r.diagnostics));
+      diagnostics.sort(compareDiagnostics);
+      await writeFileAtomic(join(outAbs, "findings.csv"), findingsCsv(findings));
+      await writeFileAtomic(join(outAbs, "diagnostics.csv"), diagnosticsCsv(diagnostics));
+      const count = <T>(xs: readonly T[], key: (x: T) => string) => {
+        const out: Record<string, number> = {};
+        for (const x of [...xs].sort((a, b) => (key(a) < key(b) ? -1 : 1))) {
+          out[key(x)] = (out[key(x)] ?? 0) + 1;
+        }
+        return out;
+      };
+      const record: RunRecord = {
+        ...(options.shard === undefined ? {} : { shard: options.shard }),
+        tool: "gridtriage",
+        version: VERSION,
+        command: "study",
+        network: networkDir,
+        pipeline: pipelinePath,
+        pipelineName: config.name ?? null,
+        inputHash,
+        configHash,
+        startedAt,
+        finishedAt: new Date().toISOString(),
+        timing: {
+          wallMs: Math.round(performance.now() - t0),
+          validateMs: Math.round(validateMs),
+          solveMs: Math.round(solveMs),
+          workers: options.workers,
+          cacheHits,
+          peakRssMb: Math.round(Math.max(peakRss, Deno.memoryUsage().rss) / 2 ** 20),
+        },
+        counts: {
+          feeders: fleet.value.feeders.length,
+          studied: all.filter((r) => r.status === "studied").length,
+          failed: all.filter((r) => r.status === "failed").length,
+          setAside: all.filter((r) => r.status === "set_aside").length,
+          findings: count(findings, (f) => f.severity),
+          diagnostics: count(diagnostics, (d) => d.severity),
+        },
+      };
+      await writeFileAtomic(join(outAbs, "run.json"), runJson(record));
+      if (store !== undefined && runId !== undefined) {
+        store.finishRun(runId, record.finishedAt, record.counts);
+      }
+      const changes: FeederChange[] = only === undefined ? [] : [...records.values()]
+        .filter((r) => only.has(r.feederId.toLowerCase()))
+        .map((after) => ({
+          feederId: after.feederId,
+          before: previous?.feeders.get(after.feederId),
+          after,
+        }));
+      return { record, findings, diagnostics, cacheHits, changes };
+    } finally {
+      clearInterval(sampler);
     }
-    const changes: FeederChange[] = only === undefined ? [] : [...records.values()]
-      .filter((r) => only.has(r.feederId.toLowerCase()))
-      .map((after) => ({
-        feederId: after.feederId,
-        before: previous?.feeders.get(after.feederId),
-        after,
-      }));
-    return { record, findings, diagnostics, cacheHits, changes };
   } finally {
     store?.close();
   }

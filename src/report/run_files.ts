@@ -129,6 +129,8 @@ export interface RunRecord {
     readonly solveMs: number;
     readonly workers: number;
     readonly cacheHits: number;
+    /** Peak resident memory of the process, sampled every 100 ms, MB. */
+    readonly peakRssMb: number;
   };
   readonly counts: {
     readonly feeders: number;
