@@ -117,3 +117,40 @@ Deno.test("runCli() study exits 2 with located errors for a bad pipeline file", 
     await Deno.remove(bad).catch(() => {});
   }
 });
+
+Deno.test("runCli() synth writes a fleet that validates clean, and diff of a run with itself is empty", async () => {
+  const dir = "reports/.test-tmp/cli-synth";
+  try {
+    const s = await capture([
+      "synth",
+      "--feeders",
+      "6",
+      "--buses",
+      "30",
+      "--seed",
+      "5",
+      "--out",
+      `${dir}/net`,
+    ]);
+    assertEquals(s.code, EXIT_CLEAN);
+    const v = await capture(["validate", `${dir}/net`]);
+    assertEquals(v.code, EXIT_CLEAN);
+    assert(v.out.includes("6 feeders, 6 valid, 0 set aside"), v.out);
+    await capture([
+      "study",
+      `${dir}/net`,
+      "--out",
+      `${dir}/run`,
+      "--workers",
+      "0",
+      "--store",
+      `${dir}/s.sqlite`,
+    ]);
+    const d = await capture(["diff", `${dir}/run`, `${dir}/run`]);
+    assertEquals(d.code, EXIT_CLEAN);
+    assertEquals(d.out.trim(), "No feeder changed.");
+    assertEquals((await capture(["diff", `${dir}/run`, `${dir}/none`])).code, EXIT_USAGE);
+  } finally {
+    await Deno.remove(dir, { recursive: true }).catch(() => {});
+  }
+});
