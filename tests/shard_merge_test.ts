@@ -2,6 +2,7 @@
  * Scale-out: three shard processes of the CLI and a merge give the same run folder, byte
  * for byte, as one process studying the whole fleet (run.json differs only in its times).
  */
+import { readTree } from "./fixtures/read_tree.ts";
 import { deepStrictEqual as assertEquals } from "node:assert/strict";
 import { join } from "node:path";
 
@@ -23,17 +24,6 @@ async function cli(...args: string[]): Promise<void> {
       `gridtriage ${args.join(" ")} exited ${out.code}: ${new TextDecoder().decode(out.stderr)}`,
     );
   }
-}
-
-async function readTree(dir: string): Promise<Record<string, string>> {
-  const out: Record<string, string> = {};
-  for await (const e of Deno.readDir(dir)) {
-    const p = join(dir, e.name);
-    if (e.isDirectory) {
-      for (const [k, v] of Object.entries(await readTree(p))) out[`${e.name}/${k}`] = v;
-    } else out[e.name] = await Deno.readTextFile(p);
-  }
-  return out;
 }
 
 /** run.json without what differs between identical runs: its times. */

@@ -7,7 +7,13 @@
 import { join } from "node:path";
 import { compareDiagnostics, type Diagnostic } from "../model/diagnostic.ts";
 import { compareFindings, type Finding } from "../checks/finding.ts";
-import { diagnosticsCsv, findingsCsv, runJson, type RunRecord } from "../report/run_files.ts";
+import {
+  diagnosticsCsv,
+  findingsCsv,
+  runJson,
+  type RunRecord,
+  tallyBy,
+} from "../report/run_files.ts";
 import { parseDiagnosticsCsv, parseFindingsCsv } from "../report/read_run_files.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
 
@@ -67,13 +73,6 @@ export async function mergeRuns(shardDirs: readonly string[], outDir: string): P
   diagnostics.sort(compareDiagnostics);
   await writeFileAtomic(join(outDir, "findings.csv"), findingsCsv(findings));
   await writeFileAtomic(join(outDir, "diagnostics.csv"), diagnosticsCsv(diagnostics));
-  const tally = <T>(xs: readonly T[], key: (x: T) => string) => {
-    const out: Record<string, number> = {};
-    for (const x of [...xs].sort((a, b) => (key(a) < key(b) ? -1 : 1))) {
-      out[key(x)] = (out[key(x)] ?? 0) + 1;
-    }
-    return out;
-  };
   const sum = (k: "feeders" | "studied" | "failed" | "setAside") =>
     records.reduce((s, r) => s + r.counts[k], 0);
   const { shard: _shard, timing: _timing, ...base } = first;
@@ -86,8 +85,8 @@ export async function mergeRuns(shardDirs: readonly string[], outDir: string): P
       studied: sum("studied"),
       failed: sum("failed"),
       setAside: sum("setAside"),
-      findings: tally(findings, (f) => f.severity),
-      diagnostics: tally(diagnostics, (d) => d.severity),
+      findings: tallyBy(findings, (f) => f.severity),
+      diagnostics: tallyBy(diagnostics, (d) => d.severity),
     },
   };
   await writeFileAtomic(join(outDir, "run.json"), runJson(merged));

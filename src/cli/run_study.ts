@@ -25,6 +25,7 @@ import {
   findingsCsv,
   runJson,
   type RunRecord,
+  tallyBy,
 } from "../report/run_files.ts";
 import { type FeederRecord, openRunStore, type RunStore } from "./run_store.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
@@ -252,13 +253,6 @@ export async function runStudy(
       diagnostics.sort(compareDiagnostics);
       await writeFileAtomic(join(outAbs, "findings.csv"), findingsCsv(findings));
       await writeFileAtomic(join(outAbs, "diagnostics.csv"), diagnosticsCsv(diagnostics));
-      const count = <T>(xs: readonly T[], key: (x: T) => string) => {
-        const out: Record<string, number> = {};
-        for (const x of [...xs].sort((a, b) => (key(a) < key(b) ? -1 : 1))) {
-          out[key(x)] = (out[key(x)] ?? 0) + 1;
-        }
-        return out;
-      };
       const record: RunRecord = {
         ...(options.shard === undefined ? {} : { shard: options.shard }),
         tool: "gridtriage",
@@ -284,8 +278,8 @@ export async function runStudy(
           studied: all.filter((r) => r.status === "studied").length,
           failed: all.filter((r) => r.status === "failed").length,
           setAside: all.filter((r) => r.status === "set_aside").length,
-          findings: count(findings, (f) => f.severity),
-          diagnostics: count(diagnostics, (d) => d.severity),
+          findings: tallyBy(findings, (f) => f.severity),
+          diagnostics: tallyBy(diagnostics, (d) => d.severity),
         },
       };
       await writeFileAtomic(join(outAbs, "run.json"), runJson(record));

@@ -1,21 +1,11 @@
 /** The run folder: every file written, and byte-identical between runs except run.json. */
+import { readTree } from "../../tests/fixtures/read_tree.ts";
 import { deepStrictEqual as assertEquals, ok as assert } from "node:assert/strict";
 import { join } from "node:path";
 import { loadPipelineConfig } from "../pipeline/load_pipeline_config.ts";
 import { runStudy, type StudyRunOptions } from "./run_study.ts";
 
 const TMP = "reports/.test-tmp/run-study";
-
-async function readTree(dir: string): Promise<Record<string, string>> {
-  const out: Record<string, string> = {};
-  for await (const e of Deno.readDir(dir)) {
-    const p = join(dir, e.name);
-    if (e.isDirectory) {
-      for (const [k, v] of Object.entries(await readTree(p))) out[`${e.name}/${k}`] = v;
-    } else out[e.name] = await Deno.readTextFile(p);
-  }
-  return out;
-}
 
 Deno.test("runStudy() writes the run folder, identical between runs but for run.json", async () => {
   const config = (await loadPipelineConfig("pipelines/nightly.json")).value!;

@@ -1,4 +1,5 @@
 /** Content hash of a network folder's tables, for run provenance and caching. */
+import { sha256Hex } from "../model/sha256_hex.ts";
 import { join } from "node:path";
 import { TABLES } from "./read_network.ts";
 
@@ -20,13 +21,5 @@ export async function hashNetworkFolder(dir: string): Promise<string> {
     }
     parts.push(enc.encode(name + "\u0000"), bytes, enc.encode("\u0000"));
   }
-  const total = parts.reduce((s, p) => s + p.length, 0);
-  const all = new Uint8Array(total);
-  let at = 0;
-  for (const p of parts) {
-    all.set(p, at);
-    at += p.length;
-  }
-  const digest = await crypto.subtle.digest("SHA-256", all);
-  return [...new Uint8Array(digest)].map((b) => b.toString(16).padStart(2, "0")).join("");
+  return await sha256Hex(parts);
 }

@@ -3,6 +3,7 @@
  * in a fixed key order. Two forms hash alike exactly when a study of them must give the
  * same result, so the hash keys the result cache.
  */
+import { sha256Hex } from "./sha256_hex.ts";
 import type { FeederForm } from "./feeder_form.ts";
 
 const enc = new TextEncoder();
@@ -37,14 +38,5 @@ function collect(value: unknown, parts: Uint8Array[]): void {
 export async function hashFeederForm(form: FeederForm): Promise<string> {
   const parts: Uint8Array[] = [];
   collect(form, parts);
-  let total = 0;
-  for (const p of parts) total += p.length;
-  const all = new Uint8Array(total);
-  let at = 0;
-  for (const p of parts) {
-    all.set(p, at);
-    at += p.length;
-  }
-  const digest = await crypto.subtle.digest("SHA-256", all);
-  return [...new Uint8Array(digest)].map((b) => b.toString(16).padStart(2, "0")).join("");
+  return await sha256Hex(parts);
 }

@@ -1,5 +1,6 @@
 /** The fingerprint of a pipeline config that run provenance records. */
 import type { PipelineConfig } from "./pipeline_config.ts";
+import { sha256Hex } from "../model/sha256_hex.ts";
 
 /**
  * SHA-256, as lowercase hex, of the config in canonical JSON: object keys sorted at every
@@ -7,9 +8,7 @@ import type { PipelineConfig } from "./pipeline_config.ts";
  * config, so that comments, key order and spelled-out defaults do not change it.
  */
 export async function hashPipelineConfig(config: PipelineConfig): Promise<string> {
-  const bytes = new TextEncoder().encode(canonicalJson(config));
-  const digest = new Uint8Array(await crypto.subtle.digest("SHA-256", bytes));
-  return Array.from(digest, (b) => b.toString(16).padStart(2, "0")).join("");
+  return await sha256Hex([new TextEncoder().encode(canonicalJson(config))]);
 }
 
 function canonicalJson(value: unknown): string {

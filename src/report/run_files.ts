@@ -145,3 +145,10 @@ export interface RunRecord {
 export function runJson(record: RunRecord): string {
   return JSON.stringify({ ...record, caution: CAUTION }, null, 2) + "\n";
 }
+
+/** Counts of items by a key, keys in sorted order (for stable run.json). */
+export function tallyBy<T>(xs: readonly T[], key: (x: T) => string): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const k of xs.map(key).sort()) out[k] = (out[k] ?? 0) + 1;
+  return out;
+}

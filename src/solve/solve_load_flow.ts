@@ -112,23 +112,25 @@ export function solveLoadFlow(
   const th0 = form.source.angleDeg * Math.PI / 180;
   vRe[0] = form.source.vSetPu * Math.cos(th0);
   vIm[0] = form.source.vSetPu * Math.sin(th0);
-  sweepBalanced(
-    n,
-    form.parent,
-    pre.zRe,
-    pre.zIm,
-    gRe,
-    gIm,
-    hasRatio,
-    drawRe,
-    drawIm,
-    vRe,
-    vIm,
-    jRe,
-    jIm,
-    accRe,
-    accIm,
-  );
+  const sweep = () =>
+    sweepBalanced(
+      n,
+      form.parent,
+      pre.zRe,
+      pre.zIm,
+      gRe,
+      gIm,
+      hasRatio,
+      drawRe,
+      drawIm,
+      vRe,
+      vIm,
+      jRe,
+      jIm,
+      accRe,
+      accIm,
+    );
+  sweep();
 
   let iterations = 0;
   let residual = Infinity;
@@ -171,23 +173,7 @@ export function solveLoadFlow(
         drawRe[t] = drawRe[t]! - jr;
         drawIm[t] = drawIm[t]! - ji;
       }
-      let change = sweepBalanced(
-        n,
-        form.parent,
-        pre.zRe,
-        pre.zIm,
-        gRe,
-        gIm,
-        hasRatio,
-        drawRe,
-        drawIm,
-        vRe,
-        vIm,
-        jRe,
-        jIm,
-        accRe,
-        accIm,
-      );
+      let change = sweep();
       // Breakpoint mismatch E = V_from/a − V_to − z·J; correct J by Z_bp⁻¹·E.
       for (let l = 0; l < nLoop; l++) {
         const b = pre.loopBranch[l]!;
