@@ -116,7 +116,7 @@ const table = [
     const solveWall = r.solveS / WORKERS;
     const overhead = solveWall > 0 ? (r.wallS - solveWall) / solveWall : NaN;
     return `| ${r.label} | ${r.feeders} × ${r.buses} | ${f(r.wallS)} | ${
-      f(r.feeders / r.wallS)
+      f(r.feeders / r.wallS, 2)
     } | ${f(1e9 * r.wallS / total, 0)} | ${f(1e9 * r.solveS / total, 0)} | ${f(r.validateS)} | ${
       f(100 * overhead, 0)
     } % | ${f(r.peakRssMb, 0)} |`;
