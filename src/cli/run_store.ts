@@ -105,6 +105,13 @@ export async function openRunStore(path: string): Promise<RunStore> {
        ORDER BY run_id DESC LIMIT 1`,
   );
   const runFeeders = db.prepare(`SELECT * FROM feeder_results WHERE run_id = ?`);
+  // Feeder rows are written in batches of one transaction each: one commit per row would
+  // cost more than the study of a small feeder.
+  let pendingRows = 0;
+  const flush = () => {
+    if (pendingRows > 0) db.exec("COMMIT");
+    pendingRows = 0;
+  };
   return {
     beginRun(m) {
       const r = insertRun.run(
@@ -119,9 +126,11 @@ export async function openRunStore(path: string): Promise<RunStore> {
       return Number(r.lastInsertRowid);
     },
     finishRun(runId, finishedAt, counts) {
+      flush();
       endRun.run(finishedAt, JSON.stringify(counts), runId);
     },
     recordFeeder(runId, configHash, version, r) {
+      if (pendingRows === 0) db.exec("BEGIN");
       insertFeeder.run(
         runId,
         r.feederId,
@@ -137,6 +146,7 @@ export async function openRunStore(path: string): Promise<RunStore> {
         r.maxLoadingPercent,
         r.maxDgChangePercent,
       );
+      if (++pendingRows >= 500) flush();
     },
     findCached(feederId, formHash, configHash, version) {
       const r = cached.get(feederId, formHash, configHash, version) as Row | undefined;
@@ -153,6 +163,7 @@ export async function openRunStore(path: string): Promise<RunStore> {
       return { runId, feeders };
     },
     close() {
+      flush();
       db.close();
     },
   };
