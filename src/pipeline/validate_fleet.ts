@@ -22,8 +22,9 @@ export interface ValidatedFleet {
 export async function validateFleet(
   source: TableSource,
 ): Promise<{ value: ValidatedFleet; diagnostics: Diagnostic[] }> {
-  const tables = await readNetworkTables(source);
-  const network = buildNetwork(tables.value);
+  // The validated rows are dropped as soon as the model is built: they and the solver forms
+  // are never held at once (the largest two parts of the memory a fleet takes).
+  const { network, ingestDiagnostics } = await readAndBuild(source);
   const index = indexNetwork(network.value);
   const topology = splitFeeders(network.value, index);
   const forms: FeederForm[] = [];
@@ -37,7 +38,7 @@ export async function validateFleet(
     later.push(...summary.diagnostics);
   }
   const diagnostics = attributeToFeeders(
-    [...tables.diagnostics, ...network.diagnostics, ...topology.diagnostics, ...later],
+    [...ingestDiagnostics, ...network.diagnostics, ...topology.diagnostics, ...later],
     feeders,
   ).sort(compareDiagnostics);
   return {
@@ -69,4 +70,9 @@ function attributeToFeeders(
     const ids = byRow.get(`${d.at.file}:${d.at.line}`);
     return ids === undefined ? d : { ...d, feederId: [...ids].sort().join(",") };
   });
+}
+
+async function readAndBuild(source: TableSource) {
+  const tables = await readNetworkTables(source);
+  return { network: buildNetwork(tables.value), ingestDiagnostics: tables.diagnostics };
 }
