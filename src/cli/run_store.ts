@@ -84,7 +84,8 @@ function toRecord(r: Row): FeederRecord {
 export async function openRunStore(path: string): Promise<RunStore> {
   await Deno.mkdir(dirname(path), { recursive: true });
   const db = new DatabaseSync(path);
-  db.exec("PRAGMA journal_mode = WAL; PRAGMA synchronous = NORMAL;");
+  // Several processes (shards on one machine) may share a store: wait for the writer lock.
+  db.exec("PRAGMA busy_timeout = 60000; PRAGMA journal_mode = WAL; PRAGMA synchronous = NORMAL;");
   db.exec(SCHEMA);
   const insertRun = db.prepare(
     `INSERT INTO runs (network, pipeline, out_dir, input_hash, config_hash, tool_version, started_at)
@@ -107,11 +108,17 @@ export async function openRunStore(path: string): Promise<RunStore> {
   const runFeeders = db.prepare(`SELECT * FROM feeder_results WHERE run_id = ?`);
   // Feeder rows are written in batches of one transaction each: one commit per row would
   // cost more than the study of a small feeder.
+  // A batch also ends after half a second, so that other writers are not held up.
   let pendingRows = 0;
+  let batchStart = 0;
   const flush = () => {
     if (pendingRows > 0) db.exec("COMMIT");
     pendingRows = 0;
   };
+  // While workers study a long feeder no row arrives: commit what is pending anyway.
+  const ticker = setInterval(() => {
+    if (pendingRows > 0 && performance.now() - batchStart > 500) flush();
+  }, 250);
   return {
     beginRun(m) {
       const r = insertRun.run(
@@ -130,7 +137,10 @@ export async function openRunStore(path: string): Promise<RunStore> {
       endRun.run(finishedAt, JSON.stringify(counts), runId);
     },
     recordFeeder(runId, configHash, version, r) {
-      if (pendingRows === 0) db.exec("BEGIN");
+      if (pendingRows === 0) {
+        db.exec("BEGIN IMMEDIATE");
+        batchStart = performance.now();
+      }
       insertFeeder.run(
         runId,
         r.feederId,
@@ -146,7 +156,7 @@ export async function openRunStore(path: string): Promise<RunStore> {
         r.maxLoadingPercent,
         r.maxDgChangePercent,
       );
-      if (++pendingRows >= 500) flush();
+      if (++pendingRows >= 500 || performance.now() - batchStart > 500) flush();
     },
     findCached(feederId, formHash, configHash, version) {
       const r = cached.get(feederId, formHash, configHash, version) as Row | undefined;
@@ -163,6 +173,7 @@ export async function openRunStore(path: string): Promise<RunStore> {
       return { runId, feeders };
     },
     close() {
+      clearInterval(ticker);
       flush();
       db.close();
     },
