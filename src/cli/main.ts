@@ -11,7 +11,7 @@ import { validateFleet } from "../pipeline/validate_fleet.ts";
 import { choosePaint } from "./paint.ts";
 import { formatDiagnostic, formatValidation } from "./format_validation.ts";
 import { loadPipelineConfig } from "../pipeline/load_pipeline_config.ts";
-import { DEFAULT_STUDY_RUN_OPTIONS, runStudy } from "./run_study.ts";
+import { DEFAULT_STUDY_RUN_OPTIONS, runStudy, StudyInputError } from "./run_study.ts";
 import { createProgress } from "./progress.ts";
 import { MergeError, mergeRuns } from "./merge_runs.ts";
 import { writeSynthFleet } from "./write_fleet.ts";
@@ -39,6 +39,16 @@ async function checkDirectory(path: string): Promise<void> {
   }
   if (!info.isDirectory) {
     throw new UsageError(`Network folder "${path}" is a file; expected a folder of CSV tables`);
+  }
+}
+
+/** runStudy with the user's mistakes turned into usage errors. */
+async function runStudyOrExplain(...args: Parameters<typeof runStudy>) {
+  try {
+    return await runStudy(...args);
+  } catch (e) {
+    if (e instanceof StudyInputError) throw new UsageError(e.message);
+    throw e;
   }
 }
 
@@ -160,7 +170,7 @@ function buildProgram(setExit: (code: number) => void) {
       const progress = createProgress(
         options.quiet ? "quiet" : Deno.stderr.isTerminal() ? "tty" : "log",
       );
-      const run = await runStudy(dir, options.pipeline, config.value, options.out, {
+      const run = await runStudyOrExplain(dir, options.pipeline, config.value, options.out, {
         workers: options.workers,
         timeoutMs: options.timeout * 1000,
         storePath: options.store,

@@ -154,3 +154,46 @@ Deno.test("runCli() synth writes a fleet that validates clean, and diff of a run
     await Deno.remove(dir, { recursive: true }).catch(() => {});
   }
 });
+
+Deno.test("runCli() study --feeder exits 2 when the run folder has no earlier run or the feeder is unknown", async () => {
+  const dir = "reports/.test-tmp/cli-rerun";
+  try {
+    const store = ["--store", `${dir}/s.sqlite`, "--workers", "0", "--quiet"];
+    const none = await capture([
+      "study",
+      "data-samples/norvessa",
+      "--out",
+      `${dir}/run`,
+      "--feeder",
+      "MOR-L1",
+      ...store,
+    ]);
+    assertEquals(none.code, EXIT_USAGE);
+    assert(/No earlier run/.test(none.err), none.err);
+    await capture(["study", "data-samples/norvessa", "--out", `${dir}/run`, ...store]);
+    const unknown = await capture([
+      "study",
+      "data-samples/norvessa",
+      "--out",
+      `${dir}/run`,
+      "--feeder",
+      "NOPE",
+      ...store,
+    ]);
+    assertEquals(unknown.code, EXIT_USAGE);
+    assert(/Feeder "NOPE" is not in this network/.test(unknown.err), unknown.err);
+    const ok = await capture([
+      "study",
+      "data-samples/norvessa",
+      "--out",
+      `${dir}/run`,
+      "--feeder",
+      "MOR-L1",
+      ...store,
+    ]);
+    assertEquals(ok.code, EXIT_CLEAN);
+    assert(ok.out.includes("Feeder MOR-L1:"), ok.out);
+  } finally {
+    await Deno.remove(dir, { recursive: true }).catch(() => {});
+  }
+});

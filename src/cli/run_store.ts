@@ -41,7 +41,9 @@ export interface RunStore {
     version: string,
   ): FeederRecord | undefined;
   /** The latest finished run written to this folder, with its feeders. */
-  latestRun(outDir: string): { runId: number; feeders: Map<string, FeederRecord> } | undefined;
+  latestRun(outDir: string):
+    | { runId: number; configHash: string; version: string; feeders: Map<string, FeederRecord> }
+    | undefined;
   close(): void;
 }
 
@@ -102,7 +104,7 @@ export async function openRunStore(path: string): Promise<RunStore> {
        AND tool_version = ? AND status = 'studied' ORDER BY run_id DESC LIMIT 1`,
   );
   const lastRun = db.prepare(
-    `SELECT run_id FROM runs WHERE out_dir = ? AND finished_at IS NOT NULL
+    `SELECT run_id, config_hash, tool_version FROM runs WHERE out_dir = ? AND finished_at IS NOT NULL
        ORDER BY run_id DESC LIMIT 1`,
   );
   const runFeeders = db.prepare(`SELECT * FROM feeder_results WHERE run_id = ?`);
@@ -170,7 +172,12 @@ export async function openRunStore(path: string): Promise<RunStore> {
       for (const row of runFeeders.all(runId) as Row[]) {
         feeders.set(String(row.feeder_id), toRecord(row));
       }
-      return { runId, feeders };
+      return {
+        runId,
+        configHash: String(r.config_hash),
+        version: String(r.tool_version),
+        feeders,
+      };
     },
     close() {
       clearInterval(ticker);

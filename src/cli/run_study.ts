@@ -70,6 +70,9 @@ export interface StudyRun {
 
 const WORKER_URL = new URL("../pipeline/study_worker.ts", import.meta.url);
 
+/** A problem with what the user asked for (exit code 2), not a bug. */
+export class StudyInputError extends Error {}
+
 /** Key figures of a study for the store. */
 function toRecord(
   feederId: string,
@@ -115,10 +118,18 @@ export async function runStudy(
   try {
     const outAbs = resolve(outDir);
     const previous = store?.latestRun(outAbs);
-    if (options.onlyFeeders !== undefined && previous === undefined) {
-      throw new Error(
-        `no earlier run of "${outDir}" is in the run store; run the whole study into it first`,
-      );
+    if (options.onlyFeeders !== undefined) {
+      if (previous === undefined) {
+        throw new StudyInputError(
+          `No earlier run of "${outDir}" is in the run store; run the whole study into it first`,
+        );
+      }
+      if (previous.configHash !== configHash || previous.version !== VERSION) {
+        throw new StudyInputError(
+          `The run in "${outDir}" was made with another pipeline or tool version; ` +
+            "rerun the whole study instead of single feeders",
+        );
+      }
     }
     const runId = store?.beginRun({
       network: networkDir,
@@ -140,6 +151,14 @@ export async function runStudy(
       const validateMs = performance.now() - t0;
       let solveMs = 0;
       const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
+      if (options.onlyFeeders !== undefined) {
+        const known = new Set(fleet.value.feeders.map((f) => f.feederId.toLowerCase()));
+        for (const id of options.onlyFeeders) {
+          if (!known.has(id.toLowerCase())) {
+            throw new StudyInputError(`Feeder "${id}" is not in this network`);
+          }
+        }
+      }
       const records = new Map<string, FeederRecord>();
       const diagnostics: Diagnostic[] = [...fleet.diagnostics];
       const fileOf = (id: string) => join(outAbs, "feeders", feederFileName(id));
@@ -179,14 +198,6 @@ export async function runStudy(
           continue;
         }
         toStudy.push({ form, hash });
-      }
-      if (only !== undefined) {
-        const known = new Set(fleet.value.feeders.map((f) => f.feederId.toLowerCase()));
-        for (const id of options.onlyFeeders!) {
-          if (!known.has(id.toLowerCase())) {
-            throw new Error(`feeder "${id}" is not in this network`);
-          }
-        }
       }
 
       const hashes = new Map(toStudy.map((t) => [t.form.feederId, t.hash]));
