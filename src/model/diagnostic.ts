@@ -54,7 +54,3 @@ export function compareDiagnostics(a: Diagnostic, b: Diagnostic): number {
   if (a.code !== b.code) return a.code < b.code ? -1 : 1;
   return a.message < b.message ? -1 : a.message > b.message ? 1 : 0;
 }
-
-export function hasErrors(diagnostics: readonly Diagnostic[]): boolean {
-  return diagnostics.some((d) => d.severity === "error");
-}

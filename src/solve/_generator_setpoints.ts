@@ -10,7 +10,7 @@ import type { CurvePoint } from "../model/network.ts";
 import { interpolateCurve } from "./interpolate_curve.ts";
 import { BASE_MVA } from "./prepare_load_flow.ts";
 
-export const Q_FIXED = 0;
+/** Reactive modes solved inside the load flow (0 = fixed for the whole case). */
 export const Q_VOLT_VAR = 1;
 export const Q_VOLTAGE_CONTROL = 2;
 
