@@ -4,7 +4,6 @@
  */
 import { readTree } from "./fixtures/read_tree.ts";
 import { deepStrictEqual as assertEquals } from "node:assert/strict";
-import { join } from "node:path";
 
 const TMP = "reports/.test-tmp/shards";
 const PERMS = [

@@ -1,7 +1,6 @@
 /** The run folder: every file written, and byte-identical between runs except run.json. */
 import { readTree } from "../../tests/fixtures/read_tree.ts";
 import { deepStrictEqual as assertEquals, ok as assert } from "node:assert/strict";
-import { join } from "node:path";
 import { loadPipelineConfig } from "../pipeline/load_pipeline_config.ts";
 import { runStudy, type StudyRunOptions } from "./run_study.ts";
 
