@@ -178,6 +178,7 @@ function buildProgram(setExit: (code: number) => void) {
         ...(options.feeder.length > 0 ? { onlyFeeders: options.feeder } : {}),
         ...(options.shard === undefined ? {} : { shard: options.shard }),
         onProgress: (done, total, failed) => progress.update(done, total, failed),
+        onPhase: (text) => progress.note(text),
       });
       progress.finish();
       console.log(formatStudySummary(run, options.out, paint));

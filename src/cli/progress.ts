@@ -4,6 +4,8 @@
  */
 
 export interface ProgressSink {
+  /** A one-off message (a phase starting), on a line of its own. */
+  note(text: string): void;
   update(done: number, total: number, failed: number): void;
   finish(): void;
 }
@@ -48,6 +50,12 @@ export function createProgress(
   let lastLog = start;
   let drawn = false;
   return {
+    note(text) {
+      if (mode === "quiet") return;
+      if (mode === "tty" && drawn) write("\r\x1b[K");
+      drawn = false;
+      write(`${text}\n`);
+    },
     update(done, total, failed) {
       if (mode === "quiet") return;
       const t = now();

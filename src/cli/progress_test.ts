@@ -37,3 +37,13 @@ Deno.test("createProgress() rewrites one line on a terminal and clears it at the
   assert(out[0]!.startsWith("\r") && out[0]!.endsWith("\x1b[K"));
   assertEquals(out.at(-1), "\r\x1b[K");
 });
+
+Deno.test("createProgress() notes phases on their own line, and nothing when quiet", () => {
+  const out: string[] = [];
+  const log = createProgress("log", (t) => out.push(t), () => 0);
+  log.note("validated 3 feeders in 0.1 s");
+  assertEquals(out, ["validated 3 feeders in 0.1 s\n"]);
+  const quiet: string[] = [];
+  createProgress("quiet", (t) => quiet.push(t), () => 0).note("x");
+  assertEquals(quiet, []);
+});

@@ -46,6 +46,8 @@ export interface StudyRunOptions {
   /** Test-only fault hook passed to the workers. */
   readonly faults?: StudyWorkerInit["faults"];
   readonly onProgress?: (done: number, total: number, failed: number) => void;
+  /** Told when a phase starts: reading and validating, then studying. */
+  readonly onPhase?: (text: string) => void;
 }
 
 export const DEFAULT_STUDY_RUN_OPTIONS: StudyRunOptions = {
@@ -147,8 +149,12 @@ export async function runStudy(
       peakRss = Math.max(peakRss, Deno.memoryUsage().rss);
     }, 100);
     try {
+      options.onPhase?.(`reading and validating ${networkDir}`);
       const fleet = shareOf(await validateFleet(folderSource(networkDir)), options.shard);
       const validateMs = performance.now() - t0;
+      options.onPhase?.(
+        `validated ${fleet.value.feeders.length} feeders in ${(validateMs / 1000).toFixed(1)} s`,
+      );
       let solveMs = 0;
       const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
       if (options.onlyFeeders !== undefined) {
