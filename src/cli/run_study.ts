@@ -12,11 +12,12 @@ import { folderSource } from "../ingest/read_network.ts";
 import { hashNetworkFolder } from "../ingest/hash_network.ts";
 import { validateFleet } from "../pipeline/validate_fleet.ts";
 import { inShard, type Shard } from "../pipeline/shard.ts";
-import { type FeederStudy, studyFeeder } from "../pipeline/study_feeder.ts";
+import { studyFeeder } from "../pipeline/study_feeder.ts";
+import { type PackedStudy, packStudy } from "../pipeline/pack_study.ts";
 import type { PipelineConfig } from "../pipeline/pipeline_config.ts";
 import { hashPipelineConfig } from "../pipeline/hash_pipeline_config.ts";
 import { type PoolOutcome, type PoolTask, runPool } from "../pipeline/worker_pool.ts";
-import type { StudyWorkerInit } from "../pipeline/study_worker.ts";
+import type { StudyTask, StudyWorkerInit } from "../pipeline/study_worker.ts";
 import { compareFindings, type Finding } from "../checks/finding.ts";
 import {
   diagnosticsCsv,
@@ -75,30 +76,24 @@ const WORKER_URL = new URL("../pipeline/study_worker.ts", import.meta.url);
 /** A problem with what the user asked for (exit code 2), not a bug. */
 export class StudyInputError extends Error {}
 
-/** Key figures of a study for the store. */
-function toRecord(
+/** A store record for a feeder with no study: set aside, or failed in its worker. */
+function emptyRecord(
   feederId: string,
   formHash: string,
   resultFile: string,
-  study: FeederStudy | undefined,
   status: string,
 ): FeederRecord {
-  const cases = study?.cases ?? [];
-  const max = (xs: (number | null)[]) => {
-    const v = xs.filter((x): x is number => x !== null);
-    return v.length === 0 ? null : Math.max(...v);
-  };
   return {
     feederId,
     formHash,
     status,
     resultFile,
-    findings: study?.findings ?? [],
-    diagnostics: study?.diagnostics ?? [],
-    vMinPu: cases.length === 0 ? null : Math.min(...cases.map((c) => c.vMinPu)),
-    vMaxPu: max(cases.map((c) => c.vMaxPu)),
-    maxLoadingPercent: max(cases.map((c) => c.maxLoadingPercent)),
-    maxDgChangePercent: max(cases.map((c) => c.maxDgChangePercent)),
+    findings: [],
+    diagnostics: [],
+    vMinPu: null,
+    vMaxPu: null,
+    maxLoadingPercent: null,
+    maxDgChangePercent: null,
   };
 }
 
@@ -178,7 +173,7 @@ export async function runStudy(
       for (const f of fleet.value.feeders) {
         if (f.status !== "set_aside") continue;
         await writeFileAtomic(fileOf(f.feederId), feederJson(f, undefined));
-        keep(toRecord(f.feederId, "", fileOf(f.feederId), undefined, "set_aside"));
+        keep(emptyRecord(f.feederId, "", fileOf(f.feederId), "set_aside"));
       }
 
       // What to compute, what to take from the store.
@@ -209,13 +204,14 @@ export async function runStudy(
       const hashes = new Map(toStudy.map((t) => [t.form.feederId, t.hash]));
       const total = toStudy.length;
       let done = 0, failedToRun = 0;
-      const accept = async (outcome: PoolOutcome<FeederStudy>) => {
+      const accept = async (outcome: PoolOutcome<PackedStudy>) => {
         done++;
         const id = outcome.id;
         if (outcome.ok) {
           solveMs += outcome.workMs;
-          await writeFileAtomic(fileOf(id), feederJson(summaries.get(id)!, outcome.value));
-          keep(toRecord(id, hashes.get(id)!, fileOf(id), outcome.value, outcome.value.status));
+          const { fileText, ...figures } = outcome.value;
+          await writeFileAtomic(fileOf(id), fileText);
+          keep({ feederId: id, formHash: hashes.get(id)!, resultFile: fileOf(id), ...figures });
         } else {
           failedToRun++;
           const failure = makeDiagnostic(
@@ -229,7 +225,7 @@ export async function runStudy(
             feederJson(summaries.get(id)!, undefined, outcome.reason),
           );
           keep({
-            ...toRecord(id, hashes.get(id)!, fileOf(id), undefined, "failed"),
+            ...emptyRecord(id, hashes.get(id)!, fileOf(id), "failed"),
             diagnostics: [failure],
           });
         }
@@ -238,7 +234,7 @@ export async function runStudy(
       if (options.workers <= 0 || total === 0) {
         for (const { form } of toStudy) {
           const t = performance.now();
-          const value = studyFeeder(form, config);
+          const value = packStudy(summaries.get(form.feederId)!, studyFeeder(form, config));
           await accept({
             id: form.feederId,
             ok: true,
@@ -248,16 +244,20 @@ export async function runStudy(
           });
         }
       } else {
-        const tasks = function* (): Generator<PoolTask<FeederForm>> {
+        const tasks = function* (): Generator<PoolTask<StudyTask>> {
           for (const { form } of toStudy) {
-            yield { id: form.feederId, payload: form, transfer: listTransferables(form) };
+            yield {
+              id: form.feederId,
+              payload: { form, summary: summaries.get(form.feederId)! },
+              transfer: listTransferables(form),
+            };
           }
         };
         const init: StudyWorkerInit = {
           settings: config,
           ...(options.faults ? { faults: options.faults } : {}),
         };
-        await runPool<FeederForm, FeederStudy>(
+        await runPool<StudyTask, PackedStudy>(
           tasks(),
           { workerUrl: WORKER_URL, workers: options.workers, timeoutMs: options.timeoutMs, init },
           accept,

@@ -1,11 +1,20 @@
 /**
- * Worker entry of the fleet study: receives the study settings once, then feeder forms,
- * and answers each with the feeder's study. A test-only fault hook (init.faults) makes it
- * crash or hang on named feeders, to exercise the pool's recovery.
+ * Worker entry of the fleet study: receives the study settings once, then feeder forms
+ * with their summaries, and answers each with the packed study (result file text
+ * included). A test-only fault hook (init.faults) makes it crash or hang on named
+ * feeders, to exercise the pool's recovery.
  */
 /// <reference lib="deno.worker" />
 import type { FeederForm } from "../model/feeder_form.ts";
+import type { FeederSummary } from "../model/summarize_feeder.ts";
 import { studyFeeder, type StudySettings } from "./study_feeder.ts";
+import { packStudy } from "./pack_study.ts";
+
+/** What the pool sends per feeder: its solver form and its validation summary. */
+export interface StudyTask {
+  readonly form: FeederForm;
+  readonly summary: FeederSummary;
+}
 
 export interface StudyWorkerInit {
   readonly settings: StudySettings;
@@ -17,7 +26,7 @@ let init: StudyWorkerInit | undefined;
 self.onmessage = (e: MessageEvent) => {
   const m = e.data as
     | { kind: "init"; init: StudyWorkerInit }
-    | { kind: "task"; id: string; payload: FeederForm };
+    | { kind: "task"; id: string; payload: StudyTask };
   if (m.kind === "init") {
     init = m.init;
     return;
@@ -30,7 +39,7 @@ self.onmessage = (e: MessageEvent) => {
     });
     return;
   }
-  const feederId = m.payload.feederId;
+  const feederId = m.payload.form.feederId;
   if (init.faults?.crash?.includes(feederId)) {
     setTimeout(() => {
       throw new Error(`injected crash on feeder "${feederId}"`);
@@ -44,7 +53,7 @@ self.onmessage = (e: MessageEvent) => {
   }
   try {
     const t0 = performance.now();
-    const value = studyFeeder(m.payload, init.settings);
+    const value = packStudy(m.payload.summary, studyFeeder(m.payload.form, init.settings));
     self.postMessage({ kind: "done", id: m.id, value, ms: performance.now() - t0 });
   } catch (err) {
     self.postMessage({
