@@ -144,6 +144,11 @@ function buildProgram(setExit: (code: number) => void) {
     )
     .option("--no-cache", "study every feeder even if the store holds an identical earlier result")
     .option(
+      "--part-buses <n>",
+      "study a very large export in parts of at most n buses each, so memory follows the part, not the fleet",
+      parsePositive,
+    )
+    .option(
       "--shard <i/N>",
       "study only share i of N of the fleet (by a hash of the feeder id)",
       (v: string) => {
@@ -177,6 +182,7 @@ function buildProgram(setExit: (code: number) => void) {
         useCache: options.cache,
         ...(options.feeder.length > 0 ? { onlyFeeders: options.feeder } : {}),
         ...(options.shard === undefined ? {} : { shard: options.shard }),
+        ...(options.partBuses === undefined ? {} : { partBuses: options.partBuses }),
         onProgress: (done, total, failed) => progress.update(done, total, failed),
         onPhase: (text) => progress.note(text),
       });

@@ -30,6 +30,7 @@ import {
 } from "../report/run_files.ts";
 import { type FeederRecord, openRunStore, type RunStore } from "./run_store.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
+import { partitionNetwork } from "./partition_network.ts";
 import { VERSION } from "./version.ts";
 
 export interface StudyRunOptions {
@@ -42,6 +43,8 @@ export interface StudyRunOptions {
   readonly useCache?: boolean;
   /** Rerun only these feeders of the run already in the output folder. */
   readonly onlyFeeders?: readonly string[];
+  /** Study a very large export in parts of at most this many buses (bounded memory). */
+  readonly partBuses?: number;
   /** Study only this deterministic share of the fleet (see shard.ts). */
   readonly shard?: Shard;
   /** Test-only fault hook passed to the workers. */
@@ -144,24 +147,17 @@ export async function runStudy(
       peakRss = Math.max(peakRss, Deno.memoryUsage().rss);
     }, 100);
     try {
-      options.onPhase?.(`reading and validating ${networkDir}`);
-      const fleet = shareOf(await validateFleet(folderSource(networkDir)), options.shard);
-      const validateMs = performance.now() - t0;
-      options.onPhase?.(
-        `validated ${fleet.value.feeders.length} feeders in ${(validateMs / 1000).toFixed(1)} s`,
-      );
-      let solveMs = 0;
-      const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
-      if (options.onlyFeeders !== undefined) {
-        const known = new Set(fleet.value.feeders.map((f) => f.feederId.toLowerCase()));
-        for (const id of options.onlyFeeders) {
-          if (!known.has(id.toLowerCase())) {
-            throw new StudyInputError(`Feeder "${id}" is not in this network`);
-          }
-        }
-      }
+      // Very large exports are studied in parts (see partition_network.ts); a rerun of
+      // single feeders reads the export whole.
+      const parts = options.onlyFeeders === undefined && options.partBuses !== undefined
+        ? await partitionNetwork(networkDir, join(outAbs, ".parts"), options.partBuses)
+        : undefined;
+      const sources = parts === undefined
+        ? [folderSource(networkDir)]
+        : Array.from({ length: parts.count }, (_, k) => parts.source(k));
       const records = new Map<string, FeederRecord>();
-      const diagnostics: Diagnostic[] = [...fleet.diagnostics];
+      const diagnostics: Diagnostic[] = [];
+      const seenDiagnostics = new Set<string>();
       const fileOf = (id: string) => join(outAbs, "feeders", feederFileName(id));
       await Deno.mkdir(join(outAbs, "feeders"), { recursive: true });
       const keep = (r: FeederRecord) => {
@@ -170,100 +166,131 @@ export async function runStudy(
           store.recordFeeder(runId, configHash, VERSION, r);
         }
       };
-      for (const f of fleet.value.feeders) {
-        if (f.status !== "set_aside") continue;
-        await writeFileAtomic(fileOf(f.feederId), feederJson(f, undefined));
-        keep(emptyRecord(f.feederId, "", fileOf(f.feederId), "set_aside"));
-      }
-
-      // What to compute, what to take from the store.
       const only = options.onlyFeeders === undefined
         ? undefined
         : new Set(options.onlyFeeders.map((x) => x.toLowerCase()));
-      const useCache = store !== undefined && (options.useCache ?? true);
-      const toStudy: { form: FeederForm; hash: string }[] = [];
-      let cacheHits = 0;
-      for (const form of fleet.value.forms) {
-        const hash = await hashFeederForm(form);
-        const id = form.feederId;
-        const earlier = only !== undefined && !only.has(id.toLowerCase())
-          ? previous?.feeders.get(id)
-          : only === undefined && useCache
-          ? store!.findCached(id, hash, configHash, VERSION)
-          : undefined;
-        const text = earlier === undefined ? undefined : await readIfPresent(earlier.resultFile);
-        if (earlier !== undefined && text !== undefined) {
-          if (resolve(earlier.resultFile) !== fileOf(id)) await writeFileAtomic(fileOf(id), text);
-          keep({ ...earlier, resultFile: fileOf(id) });
-          cacheHits++;
-          continue;
-        }
-        toStudy.push({ form, hash });
-      }
-
-      const hashes = new Map(toStudy.map((t) => [t.form.feederId, t.hash]));
-      const total = toStudy.length;
-      let done = 0, failedToRun = 0;
-      const accept = async (outcome: PoolOutcome<PackedStudy>) => {
-        done++;
-        const id = outcome.id;
-        if (outcome.ok) {
-          solveMs += outcome.workMs;
-          const { fileText, ...figures } = outcome.value;
-          await writeFileAtomic(fileOf(id), fileText);
-          keep({ feederId: id, formHash: hashes.get(id)!, resultFile: fileOf(id), ...figures });
-        } else {
-          failedToRun++;
-          const failure = makeDiagnostic(
-            "study.failed",
-            "error",
-            `Feeder "${id}" could not be studied after ${outcome.attempts} attempt(s): ${outcome.reason}`,
-            { feederId: id },
-          );
-          await writeFileAtomic(
-            fileOf(id),
-            feederJson(summaries.get(id)!, undefined, outcome.reason),
-          );
-          keep({
-            ...emptyRecord(id, hashes.get(id)!, fileOf(id), "failed"),
-            diagnostics: [failure],
-          });
-        }
-        options.onProgress?.(done, total, failedToRun);
-      };
-      if (options.workers <= 0 || total === 0) {
-        for (const { form } of toStudy) {
-          const t = performance.now();
-          const value = packStudy(summaries.get(form.feederId)!, studyFeeder(form, config));
-          await accept({
-            id: form.feederId,
-            ok: true,
-            value,
-            attempts: 1,
-            workMs: performance.now() - t,
-          });
-        }
-      } else {
-        const tasks = function* (): Generator<PoolTask<StudyTask>> {
-          for (const { form } of toStudy) {
-            yield {
-              id: form.feederId,
-              payload: { form, summary: summaries.get(form.feederId)! },
-              transfer: listTransferables(form),
-            };
-          }
-        };
-        const init: StudyWorkerInit = {
-          settings: config,
-          ...(options.faults ? { faults: options.faults } : {}),
-        };
-        await runPool<StudyTask, PackedStudy>(
-          tasks(),
-          { workerUrl: WORKER_URL, workers: options.workers, timeoutMs: options.timeoutMs, init },
-          accept,
+      let validateMs = 0, solveMs = 0, cacheHits = 0, failedToRun = 0, feederCount = 0;
+      for (let p = 0; p < sources.length; p++) {
+        const tv = performance.now();
+        options.onPhase?.(
+          parts === undefined
+            ? `reading and validating ${networkDir}`
+            : `reading and validating part ${p + 1} of ${parts.count} of ${networkDir}`,
         );
-      }
+        const fleet = shareOf(await validateFleet(sources[p]!), options.shard);
+        validateMs += performance.now() - tv;
+        options.onPhase?.(
+          `validated ${fleet.value.feeders.length} feeders in ${
+            ((performance.now() - tv) / 1000).toFixed(1)
+          } s`,
+        );
+        const summaries = new Map(fleet.value.feeders.map((f) => [f.feederId, f]));
+        if (options.onlyFeeders !== undefined) {
+          const known = new Set(fleet.value.feeders.map((f) => f.feederId.toLowerCase()));
+          for (const id of options.onlyFeeders) {
+            if (!known.has(id.toLowerCase())) {
+              throw new StudyInputError(`Feeder "${id}" is not in this network`);
+            }
+          }
+        }
+        for (const d of fleet.diagnostics) {
+          const key = JSON.stringify(d);
+          if (seenDiagnostics.has(key)) continue; // tables every part holds report alike
+          seenDiagnostics.add(key);
+          diagnostics.push(d);
+        }
+        feederCount += fleet.value.feeders.length;
+        for (const f of fleet.value.feeders) {
+          if (f.status !== "set_aside") continue;
+          await writeFileAtomic(fileOf(f.feederId), feederJson(f, undefined));
+          keep(emptyRecord(f.feederId, "", fileOf(f.feederId), "set_aside"));
+        }
 
+        // What to compute, what to take from the store.
+        const useCache = store !== undefined && (options.useCache ?? true);
+        const toStudy: { form: FeederForm; hash: string }[] = [];
+        for (const form of fleet.value.forms) {
+          const hash = await hashFeederForm(form);
+          const id = form.feederId;
+          const earlier = only !== undefined && !only.has(id.toLowerCase())
+            ? previous?.feeders.get(id)
+            : only === undefined && useCache
+            ? store!.findCached(id, hash, configHash, VERSION)
+            : undefined;
+          const text = earlier === undefined ? undefined : await readIfPresent(earlier.resultFile);
+          if (earlier !== undefined && text !== undefined) {
+            if (resolve(earlier.resultFile) !== fileOf(id)) await writeFileAtomic(fileOf(id), text);
+            keep({ ...earlier, resultFile: fileOf(id) });
+            cacheHits++;
+            continue;
+          }
+          toStudy.push({ form, hash });
+        }
+
+        const hashes = new Map(toStudy.map((t) => [t.form.feederId, t.hash]));
+        const total = toStudy.length;
+        let done = 0;
+        const accept = async (outcome: PoolOutcome<PackedStudy>) => {
+          done++;
+          const id = outcome.id;
+          if (outcome.ok) {
+            solveMs += outcome.workMs;
+            const { fileText, ...figures } = outcome.value;
+            await writeFileAtomic(fileOf(id), fileText);
+            keep({ feederId: id, formHash: hashes.get(id)!, resultFile: fileOf(id), ...figures });
+          } else {
+            failedToRun++;
+            const failure = makeDiagnostic(
+              "study.failed",
+              "error",
+              `Feeder "${id}" could not be studied after ${outcome.attempts} attempt(s): ${outcome.reason}`,
+              { feederId: id },
+            );
+            await writeFileAtomic(
+              fileOf(id),
+              feederJson(summaries.get(id)!, undefined, outcome.reason),
+            );
+            keep({
+              ...emptyRecord(id, hashes.get(id)!, fileOf(id), "failed"),
+              diagnostics: [failure],
+            });
+          }
+          options.onProgress?.(done, total, failedToRun);
+        };
+        if (options.workers <= 0 || total === 0) {
+          for (const { form } of toStudy) {
+            const t = performance.now();
+            const value = packStudy(summaries.get(form.feederId)!, studyFeeder(form, config));
+            await accept({
+              id: form.feederId,
+              ok: true,
+              value,
+              attempts: 1,
+              workMs: performance.now() - t,
+            });
+          }
+        } else {
+          const tasks = function* (): Generator<PoolTask<StudyTask>> {
+            for (const { form } of toStudy) {
+              yield {
+                id: form.feederId,
+                payload: { form, summary: summaries.get(form.feederId)! },
+                transfer: listTransferables(form),
+              };
+            }
+          };
+          const init: StudyWorkerInit = {
+            settings: config,
+            ...(options.faults ? { faults: options.faults } : {}),
+          };
+          await runPool<StudyTask, PackedStudy>(
+            tasks(),
+            { workerUrl: WORKER_URL, workers: options.workers, timeoutMs: options.timeoutMs, init },
+            accept,
+          );
+        }
+      }
+      if (parts !== undefined) await Deno.remove(join(outAbs, ".parts"), { recursive: true });
       const all = [...records.values()];
       const findings = all.flatMap((r) => r.findings).sort(compareFindings);
       diagnostics.push(...all.flatMap((r) => r.diagnostics));
@@ -291,7 +318,7 @@ export async function runStudy(
           peakRssMb: Math.round(Math.max(peakRss, Deno.memoryUsage().rss) / 2 ** 20),
         },
         counts: {
-          feeders: fleet.value.feeders.length,
+          feeders: feederCount,
           studied: all.filter((r) => r.status === "studied").length,
           failed: all.filter((r) => r.status === "failed").length,
           setAside: all.filter((r) => r.status === "set_aside").length,
