@@ -42,21 +42,28 @@ interface Row {
   peakRssMb: number;
 }
 
-async function studyFleet(label: string, feeders: number, buses: number): Promise<Row> {
+async function studyFleet(
+  label: string,
+  feeders: number,
+  buses: number,
+  extra: string[] = [],
+): Promise<Row> {
   const net = join(ROOT, `${feeders}x${buses}`, "network");
-  const out = join(ROOT, `${feeders}x${buses}`, "run");
-  await Deno.remove(join(ROOT, `${feeders}x${buses}`), { recursive: true }).catch(() => {});
-  await cli([
-    "synth",
-    "--feeders",
-    String(feeders),
-    "--buses",
-    String(buses),
-    "--seed",
-    "7",
-    "--out",
-    net,
-  ]);
+  const out = join(ROOT, `${feeders}x${buses}`, extra.length > 0 ? "run-parts" : "run");
+  await Deno.remove(out, { recursive: true }).catch(() => {});
+  if (!(await Deno.stat(net).then(() => true).catch(() => false))) {
+    await cli([
+      "synth",
+      "--feeders",
+      String(feeders),
+      "--buses",
+      String(buses),
+      "--seed",
+      "7",
+      "--out",
+      net,
+    ]);
+  }
   const wallS = await cli([
     "study",
     net,
@@ -66,6 +73,7 @@ async function studyFleet(label: string, feeders: number, buses: number): Promis
     "--quiet",
     "--store",
     join(ROOT, "store.sqlite"),
+    ...extra,
   ]);
   const run = JSON.parse(await Deno.readTextFile(join(out, "run.json")));
   const row: Row = {
@@ -85,7 +93,10 @@ const main = quick ? [100, 50] : [1000, 500];
 const series = quick
   ? [[200, 100], [20, 1000]]
   : [[2000, 100], [200, 1000], [20, 10_000], [2, 100_000]];
+await Deno.remove(ROOT, { recursive: true }).catch(() => {});
 const rows: Row[] = [await studyFleet("main", main[0]!, main[1]!)];
+const partBuses = String(main[0]! * main[1]! / 10);
+rows.push(await studyFleet("main, in parts", main[0]!, main[1]!, ["--part-buses", partBuses]));
 for (const [f, b] of series) rows.push(await studyFleet("scaling", f!, b!));
 
 // Single-feeder rerun on the main fleet, start-up included.
@@ -139,7 +150,8 @@ const section = [
   } MB.`,
   "",
   "Overhead vs solve = (wall − summed solve time / workers) / (summed solve time / workers): what ingest, " +
-  "the pool and writing add to the solving itself.",
+  'the pool and writing add to the solving itself. "main, in parts" is the same study with ' +
+  "`--part-buses` at a tenth of the fleet's buses.",
   "<!-- fleet:end -->",
 ].join("\n");
 const doc = await Deno.readTextFile("BENCHMARKS.md");
