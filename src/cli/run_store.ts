@@ -5,20 +5,15 @@
  */
 import { DatabaseSync } from "node:sqlite";
 import { dirname } from "node:path";
-import type { Diagnostic } from "../model/diagnostic.ts";
-import type { Finding } from "../checks/finding.ts";
+import type { PackedStudy } from "../pipeline/pack_study.ts";
 
-export interface FeederRecord {
+/** A feeder's result in a run: the packed study's figures, where its file is, its status. */
+export interface FeederRecord extends Omit<PackedStudy, "fileText" | "status"> {
   readonly feederId: string;
   readonly formHash: string;
+  /** "studied", "failed" or "set_aside". */
   readonly status: string;
   readonly resultFile: string;
-  readonly findings: readonly Finding[];
-  readonly diagnostics: readonly Diagnostic[];
-  readonly vMinPu: number | null;
-  readonly vMaxPu: number | null;
-  readonly maxLoadingPercent: number | null;
-  readonly maxDgChangePercent: number | null;
 }
 
 export interface RunStore {
