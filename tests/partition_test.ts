@@ -55,3 +55,20 @@ Deno.test("partitionNetwork() keeps an export that fits in one part whole", asyn
   assertEquals(await partitionNetwork("data-samples/norvessa", `${TMP}/none`, 10_000), undefined);
   assert(!(await Deno.stat(`${TMP}/none`).then(() => true).catch(() => false)));
 });
+
+Deno.test("partitionNetwork() reads an export whole when an edge table lacks its bus columns", async () => {
+  await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  try {
+    await Deno.mkdir(`${TMP}/net`, { recursive: true });
+    for await (const e of Deno.readDir("data-samples/norvessa")) {
+      if (e.name.endsWith(".csv")) {
+        await Deno.copyFile(`data-samples/norvessa/${e.name}`, `${TMP}/net/${e.name}`);
+      }
+    }
+    const lines = await Deno.readTextFile(`${TMP}/net/lines.csv`);
+    await Deno.writeTextFile(`${TMP}/net/lines.csv`, lines.replace(/^id,from,/, "id,start,"));
+    assertEquals(await partitionNetwork(`${TMP}/net`, `${TMP}/p`, 40), undefined);
+  } finally {
+    await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  }
+});

@@ -92,12 +92,14 @@ export async function partitionNetwork(
   };
   const busOf = (cell: string | undefined) => index.get((cell ?? "").trim().toLowerCase());
   const switchBus = new Map<string, number>();
+  let headersUsable = true;
   for (const file of EDGE_TABLES) {
     let cols: number[] = [], sid = -1;
     await streamTable(join(dir, file), (row, isHeader) => {
       if (isHeader) {
         cols = columnIndex(row, BUS_COLUMNS[file]!);
         sid = columnIndex(row, ["id"])[0]!;
+        if (cols.includes(-1)) headersUsable = false;
         return;
       }
       const a = busOf(row.cells[cols[0]!]), b = busOf(row.cells[cols[1]!]);
@@ -107,6 +109,9 @@ export async function partitionNetwork(
       }
     });
   }
+  // An edge table without its bus columns cannot be split safely: read the export whole,
+  // and let validation report the missing columns.
+  if (!headersUsable) return undefined;
   // Groups in order of their first bus; parts filled in that order.
   const size = new Int32Array(index.size);
   for (let i = 0; i < index.size; i++) size[find(i)]!++;
