@@ -7,6 +7,7 @@ import { TABLES } from "../ingest/read_network.ts";
 import type { TableResult } from "../ingest/read_table.ts";
 import type { TableSpec } from "../ingest/table_kit.ts";
 import { type Diagnostic, makeDiagnostic, type SourceLocation } from "./diagnostic.ts";
+import { locateField } from "./locate.ts";
 import type { Bus, PlaceholderEdge, Taint } from "./network.ts";
 
 export interface BuildContext {
@@ -28,13 +29,23 @@ export interface BuildContext {
     line: number,
     field: string,
     id: string,
-    spec: TableSpec<string, unknown>,
   ): Bus | undefined;
   /** The taint map as plain data (lower-case bus ids). */
   taintedBuses(): Record<string, Taint[]>;
+  /** Header column names per file (kept in the Network for later stages). */
+  readonly headers: Readonly<Record<string, readonly string[]>>;
+  /** The location of a field on a row, with its CSV column. */
+  cellAt(file: string, line: number, field: string): SourceLocation;
 }
 
 export function createBuildContext(tables: NetworkTables): BuildContext {
+  const headers: Record<string, readonly string[]> = Object.fromEntries(
+    (Object.keys(TABLES) as (keyof NetworkTables)[]).map((
+      k,
+    ) => [tables[k].file, tables[k].columns]),
+  );
+  const cellAt = (file: string, line: number, field: string) =>
+    locateField(headers, { file, line }, field);
   const diagnostics: Diagnostic[] = [];
   const taint = new Map<string, Map<string, Taint>>();
   const taintBus = (busId: string | undefined, code: string, file: string, line: number) => {
@@ -79,7 +90,6 @@ export function createBuildContext(tables: NetworkTables): BuildContext {
     line: number,
     field: string,
     id: string,
-    spec: TableSpec<string, unknown>,
   ): Bus | undefined => {
     const bus = busById.get(id.toLowerCase());
     if (bus !== undefined) return bus;
@@ -90,12 +100,7 @@ export function createBuildContext(tables: NetworkTables): BuildContext {
     error(
       "ref.unknown",
       `${what} on line ${line}: ${field} "${id}" is not a bus of ${tables.buses.file}`,
-      {
-        file,
-        line,
-        ...columnOf(tables, spec, field),
-        field,
-      },
+      cellAt(file, line, field),
       [],
     );
     return undefined;
@@ -111,6 +116,8 @@ export function createBuildContext(tables: NetworkTables): BuildContext {
     error,
     placeholder,
     refBus,
+    headers,
+    cellAt,
     taintedBuses() {
       const out: Record<string, Taint[]> = {};
       for (const [k, reasons] of taint) out[k] = [...reasons.values()];
@@ -137,15 +144,4 @@ export function createBuildContext(tables: NetworkTables): BuildContext {
   }
 
   return ctx;
-}
-
-/** The CSV column of a field in a table's header, when the header has it. */
-export function columnOf(
-  tables: NetworkTables,
-  spec: TableSpec<string, unknown>,
-  field: string,
-): { column?: number } {
-  const key = (Object.keys(TABLES) as (keyof NetworkTables)[]).find((k) => TABLES[k] === spec);
-  const idx = key === undefined ? -1 : tables[key].columns.indexOf(field);
-  return idx < 0 ? {} : { column: idx + 1 };
 }

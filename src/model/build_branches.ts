@@ -1,6 +1,5 @@
 /** Model-stage builders of the branches: lines, transformers and switching devices. */
-import { TABLES } from "../ingest/read_network.ts";
-import { type BuildContext, columnOf } from "./_build_context.ts";
+import type { BuildContext } from "./_build_context.ts";
 import type { GroupedCurves } from "./build_devices.ts";
 import type { FuseCurve, Line, LineType, SwitchDevice, Transformer } from "./network.ts";
 import { phaseCount, phaseLetters } from "./phases.ts";
@@ -11,12 +10,12 @@ export function buildLines(
   typeIds: ReadonlyMap<string, LineType>,
   badTypeIds: ReadonlySet<string>,
 ): Line[] {
-  const { tables, error, taintBus, refBus, placeholder } = ctx;
+  const { tables, error, taintBus, refBus, placeholder, cellAt } = ctx;
   const lines: Line[] = [];
   for (const { value: r, line } of tables.lines.rows) {
     const file = tables.lines.file;
-    const from = refBus(`Line "${r.id}"`, file, line, "from", r.from, TABLES.lines);
-    const to = refBus(`Line "${r.id}"`, file, line, "to", r.to, TABLES.lines);
+    const from = refBus(`Line "${r.id}"`, file, line, "from", r.from);
+    const to = refBus(`Line "${r.id}"`, file, line, "to", r.to);
     const type = typeIds.get(r.type.toLowerCase());
     const ends = [r.from, r.to];
     if (badTypeIds.has(r.type.toLowerCase())) {
@@ -25,7 +24,7 @@ export function buildLines(
       error(
         "ref.unknown",
         `Line "${r.id}" on line ${line}: type "${r.type}" is not a line type of ${tables.lineTypes.file}`,
-        { file, line, ...columnOf(tables, TABLES.lines, "type"), field: "type" },
+        cellAt(file, line, "type"),
         ends,
       );
     } else if (
@@ -36,7 +35,7 @@ export function buildLines(
         `Line "${r.id}" on line ${line}: phases "${
           phaseLetters(r.phases)
         }" do not match line type "${type.id}", which has ${type.zPhase.phases.length} phase conductor(s)`,
-        { file, line, ...columnOf(tables, TABLES.lines, "phases"), field: "phases" },
+        cellAt(file, line, "phases"),
         ends,
       );
     }
@@ -49,7 +48,7 @@ export function buildLines(
       error(
         "voltage.mismatch",
         `Line "${r.id}" on line ${line} joins bus "${from.id}" at ${from.vnKv} kV and bus "${to.id}" at ${to.vnKv} kV`,
-        { file, line, ...columnOf(tables, TABLES.lines, "to"), field: "to" },
+        cellAt(file, line, "to"),
         ends,
       );
     }
@@ -69,12 +68,12 @@ export function buildLines(
 }
 
 export function buildTransformers(ctx: BuildContext): Transformer[] {
-  const { tables, error, taintBus, refBus, placeholder } = ctx;
+  const { tables, error, taintBus, refBus, placeholder, cellAt } = ctx;
   const transformers: Transformer[] = [];
   for (const { value: r, line } of tables.transformers.rows) {
     const file = tables.transformers.file;
-    const hv = refBus(`Transformer "${r.id}"`, file, line, "hv_bus", r.hv_bus, TABLES.transformers);
-    const lv = refBus(`Transformer "${r.id}"`, file, line, "lv_bus", r.lv_bus, TABLES.transformers);
+    const hv = refBus(`Transformer "${r.id}"`, file, line, "hv_bus", r.hv_bus);
+    const lv = refBus(`Transformer "${r.id}"`, file, line, "lv_bus", r.lv_bus);
     if (hv === undefined || lv === undefined) {
       [r.hv_bus, r.lv_bus].forEach((b) => taintBus(b, "ref.unknown", file, line));
       placeholder(r.id, r.hv_bus, r.lv_bus);
@@ -91,7 +90,7 @@ export function buildTransformers(ctx: BuildContext): Transformer[] {
         error(
           "winding.mismatch",
           `Transformer "${r.id}" on line ${line}: ${side} ${kv} kV disagrees with bus "${bus.id}" at ${bus.vnKv} kV`,
-          { file, line, ...columnOf(tables, TABLES.transformers, side), field: side },
+          cellAt(file, line, side),
           [hv.id, lv.id],
         );
       }
@@ -141,13 +140,13 @@ export function buildSwitches(
   ctx: BuildContext,
   fuseCurves: GroupedCurves<FuseCurve>,
 ): SwitchDevice[] {
-  const { tables, error, taintBus, refBus, placeholder } = ctx;
+  const { tables, error, taintBus, refBus, placeholder, cellAt } = ctx;
   const fuseIds = new Set(fuseCurves.value.map((f) => f.id.toLowerCase()));
   const switches: SwitchDevice[] = [];
   for (const { value: r, line } of tables.switches.rows) {
     const file = tables.switches.file;
-    const from = refBus(`Switch "${r.id}"`, file, line, "from", r.from, TABLES.switches);
-    const to = refBus(`Switch "${r.id}"`, file, line, "to", r.to, TABLES.switches);
+    const from = refBus(`Switch "${r.id}"`, file, line, "from", r.from);
+    const to = refBus(`Switch "${r.id}"`, file, line, "to", r.to);
     if (from === undefined || to === undefined) {
       [r.from, r.to].forEach((b) => taintBus(b, "ref.unknown", file, line));
       if (r.normal_state === "closed") placeholder(r.id, r.from, r.to);
@@ -157,7 +156,7 @@ export function buildSwitches(
       error(
         "voltage.mismatch",
         `Switch "${r.id}" on line ${line} joins bus "${from.id}" at ${from.vnKv} kV and bus "${to.id}" at ${to.vnKv} kV`,
-        { file, line, ...columnOf(tables, TABLES.switches, "to"), field: "to" },
+        cellAt(file, line, "to"),
         [from.id, to.id],
       );
     }
@@ -168,7 +167,7 @@ export function buildSwitches(
         error(
           "ref.unknown",
           `Switch "${r.id}" on line ${line}: fuse_curve "${r.fuse_curve}" is not a curve of ${tables.fuseCurves.file}`,
-          { file, line, ...columnOf(tables, TABLES.switches, "fuse_curve"), field: "fuse_curve" },
+          cellAt(file, line, "fuse_curve"),
           [from.id, to.id],
         );
       }

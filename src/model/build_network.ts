@@ -5,14 +5,13 @@
  * the topology stage sets their feeders aside instead of studying a partial network.
  */
 import type { NetworkTables } from "../ingest/read_network.ts";
-import { TABLES } from "../ingest/read_network.ts";
 import { type Diagnostic, makeDiagnostic } from "./diagnostic.ts";
 import type { Generator, GridSource, Load, Network, Shunt } from "./network.ts";
 import { resolveLineTypes } from "./resolve_line_types.ts";
 import { groupFuseCurves, groupReactiveCurves, toGenerator, toLoad } from "./build_devices.ts";
 import { buildLines, buildSwitches, buildTransformers } from "./build_branches.ts";
 import { buildRelays } from "./build_relays.ts";
-import { columnOf, createBuildContext } from "./_build_context.ts";
+import { createBuildContext } from "./_build_context.ts";
 import { rejectedIds, sameLevel, VOLTAGE_LEVEL_TOLERANCE } from "./_levels.ts";
 
 export { VOLTAGE_LEVEL_TOLERANCE, WINDING_TOLERANCE } from "./_levels.ts";
@@ -24,7 +23,7 @@ export interface BuildNetworkResult {
 
 export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
   const ctx = createBuildContext(tables);
-  const { error, taintBus, refBus, diagnostics } = ctx;
+  const { error, taintBus, refBus, diagnostics, cellAt } = ctx;
   const s = tables.settings.rows[0]?.value;
   const extra = tables.settings.rows[1];
   if (extra !== undefined) {
@@ -56,18 +55,13 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
   const sources: GridSource[] = [];
   for (const { value: r, line } of tables.gridSources.rows) {
     const file = tables.gridSources.file;
-    const bus = refBus(`Grid source "${r.id}"`, file, line, "bus", r.bus, TABLES.gridSources);
+    const bus = refBus(`Grid source "${r.id}"`, file, line, "bus", r.bus);
     if (bus === undefined) continue;
     if (!sameLevel(bus.vnKv, r.nominal_voltage, VOLTAGE_LEVEL_TOLERANCE)) {
       error(
         "voltage.mismatch",
         `Grid source "${r.id}": nominal_voltage ${r.nominal_voltage} kV differs from bus "${bus.id}" at ${bus.vnKv} kV`,
-        {
-          file,
-          line,
-          ...columnOf(tables, TABLES.gridSources, "nominal_voltage"),
-          field: "nominal_voltage",
-        },
+        cellAt(file, line, "nominal_voltage"),
         [bus.id],
       );
     }
@@ -99,14 +93,13 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
       row.line,
       "bus",
       row.value.bus,
-      TABLES.loads,
     );
     if (bus !== undefined) loads.push(toLoad(row, bus.id, tables.loads.file));
   }
 
   const shunts: Shunt[] = [];
   for (const { value: r, line } of tables.shunts.rows) {
-    const bus = refBus(`Shunt "${r.id}"`, tables.shunts.file, line, "bus", r.bus, TABLES.shunts);
+    const bus = refBus(`Shunt "${r.id}"`, tables.shunts.file, line, "bus", r.bus);
     if (bus === undefined || !r.in_service) continue;
     shunts.push({
       id: r.id,
@@ -128,7 +121,6 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
       row.line,
       "bus",
       row.value.bus,
-      TABLES.generators,
     );
     if (bus === undefined) continue;
     const curve = row.value.reactive_curve;
@@ -139,12 +131,7 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
       error(
         "curve.kind",
         `Generator "${row.value.id}" on line ${row.line}: reactive_mode ${row.value.reactive_mode} cannot use curve "${found.id}" of kind ${found.kind}`,
-        {
-          file,
-          line: row.line,
-          ...columnOf(tables, TABLES.generators, "reactive_curve"),
-          field: "reactive_curve",
-        },
+        cellAt(file, row.line, "reactive_curve"),
         [bus.id],
       );
     }
@@ -154,12 +141,7 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
         error(
           "ref.unknown",
           `Generator "${row.value.id}" on line ${row.line}: reactive_curve "${curve}" is not a curve of ${tables.reactiveCurves.file}`,
-          {
-            file,
-            line: row.line,
-            ...columnOf(tables, TABLES.generators, "reactive_curve"),
-            field: "reactive_curve",
-          },
+          cellAt(file, row.line, "reactive_curve"),
           [bus.id],
         );
       }
@@ -187,12 +169,7 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
       relays,
       fuseCurves: fuseCurves.value,
       taintedBuses,
-      headers: Object.fromEntries(
-        (Object.keys(TABLES) as (keyof NetworkTables)[]).map((k) => [
-          tables[k].file,
-          tables[k].columns,
-        ]),
-      ),
+      headers: ctx.headers,
       placeholderBuses: [...placeholderBuses].filter((b) => b !== ""),
       placeholderEdges,
     },

@@ -1,14 +1,13 @@
 /** Model-stage builder of relays: stages grouped by relay, each tied to one switching device. */
 import type { NetworkTables } from "../ingest/read_network.ts";
-import { TABLES } from "../ingest/read_network.ts";
-import { type BuildContext, columnOf } from "./_build_context.ts";
+import type { BuildContext } from "./_build_context.ts";
 import type { Relay, SwitchDevice } from "./network.ts";
 import { rejectedIds } from "./_levels.ts";
 
 type Row<K extends keyof NetworkTables> = NetworkTables[K]["rows"][number];
 
 export function buildRelays(ctx: BuildContext, switches: readonly SwitchDevice[]): Relay[] {
-  const { tables, error, taintBus } = ctx;
+  const { tables, error, taintBus, cellAt } = ctx;
   const switchById = new Map(switches.map((sw) => [sw.id.toLowerCase(), sw]));
   const relays: Relay[] = [];
   const byRelay = new Map<string, Row<"relayStages">[]>();
@@ -31,12 +30,7 @@ export function buildRelays(ctx: BuildContext, switches: readonly SwitchDevice[]
       error(
         "relay.device",
         `Relay "${first.value.relay}" on line ${mixed.line}: device "${mixed.value.device}" differs from "${first.value.device}" on line ${first.line}`,
-        {
-          file,
-          line: mixed.line,
-          ...columnOf(tables, TABLES.relayStages, "device"),
-          field: "device",
-        },
+        cellAt(file, mixed.line, "device"),
         device === undefined ? [] : [device.fromBusId, device.toBusId],
       );
     }
@@ -45,12 +39,7 @@ export function buildRelays(ctx: BuildContext, switches: readonly SwitchDevice[]
         error(
           "ref.unknown",
           `Relay "${first.value.relay}" on line ${first.line}: device "${first.value.device}" is not a switch of ${tables.switches.file}`,
-          {
-            file,
-            line: first.line,
-            ...columnOf(tables, TABLES.relayStages, "device"),
-            field: "device",
-          },
+          cellAt(file, first.line, "device"),
           [],
         );
       }
