@@ -27,12 +27,9 @@ import {
   type LoadFlowCase,
   type LoadFlowOptions,
 } from "../solve/load_flow_types.ts";
+import type { CheckLimits, CheckSelection, VoltageRange } from "../checks/check_options.ts";
 
-/** A voltage range in pu of the bus's nominal voltage. */
-export interface VoltageRange {
-  readonly vMinPu: number;
-  readonly vMaxPu: number;
-}
+export type { VoltageRange };
 
 /** The resolved voltage band, with the preset it came from (null when written out). */
 export interface VoltageBand {
@@ -46,27 +43,12 @@ export interface PipelineCase extends LoadFlowCase {
   readonly label?: string | undefined;
 }
 
-export interface PipelineLimits {
+/** The check limits, with the voltage band's preset kept for provenance. */
+export interface PipelineLimits extends CheckLimits {
   readonly voltageBand: VoltageBand;
-  /** Buses at or below this nominal voltage count as LV, kV. */
-  readonly lvMaxKv: number;
-  /** Voltage change caused by generation, planning limits in % of nominal. */
-  readonly voltageChange: { readonly mvLimitPercent: number; readonly lvLimitPercent: number };
-  /** Branch loading in % of rating: a finding above limitPercent, a warning above warnPercent. */
-  readonly thermal: { readonly limitPercent: number; readonly warnPercent: number };
-  /** Reverse active power above which a finding is raised, kW. */
-  readonly reversePower: { readonly headLimitKw: number; readonly transformerLimitKw: number };
-  /** Losses as a share of the power fed in (source import plus generation), %. */
-  readonly losses: { readonly warnPercent: number };
 }
 
-export interface PipelineChecks {
-  readonly voltageBand: boolean;
-  readonly voltageChange: boolean;
-  readonly thermal: boolean;
-  readonly reversePower: boolean;
-  readonly losses: boolean;
-}
+export type PipelineChecks = CheckSelection;
 
 export interface PipelineOutput {
   readonly busResults: boolean;
