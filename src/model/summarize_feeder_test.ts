@@ -19,7 +19,7 @@ Deno.test("summarizeFeeder() adds up line length, demand and generation of each 
 
 const PLAUSIBILITY: { name: string; edit: [string, string, string]; code: string }[] = [
   {
-    // 2.5 mi read as km would be fine; 45 km on a 20 kV feeder is more than 2 km/kV.
+    // 45 km of line on a 20 kV feeder is more than 2 km per kV.
     name: "a feeder that reaches far beyond its nominal kV in km",
     edit: ["lines.csv", "LA3,A2,A3,OH50,2.5,A", "LA3,A2,A3,OH50,45,A"],
     code: "plausibility.length",
