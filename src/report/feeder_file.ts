@@ -1,0 +1,42 @@
+/**
+ * The shape of `feeders/<feeder-id>.json`, the per-feeder result file: what the report,
+ * the Parquet writer and the diff read back. Written by feederJson (run_files.ts).
+ */
+import type { Diagnostic } from "../model/diagnostic.ts";
+import type { Finding } from "../checks/finding.ts";
+import type { FeederSummary } from "../model/summarize_feeder.ts";
+import type { CaseOutcome } from "../pipeline/study_feeder.ts";
+import type { DgHeadroom, Need } from "../rank/need.ts";
+import type { CurvePoint, RelayStage } from "../model/network.ts";
+
+/** A switching device with the settings needed to draw its time–current curves. */
+export interface DeviceCurves {
+  readonly id: string;
+  readonly kind: "breaker" | "recloser" | "fuse" | "load_break_switch" | "disconnector";
+  /** The branch the device sits on, and the bus on its far side from the source. */
+  readonly branchId: string;
+  readonly toBus: string;
+  readonly isHead: boolean;
+  readonly ratedCurrentA: number | null;
+  readonly breakingCurrentA: number | null;
+  readonly relays: readonly { readonly id: string; readonly stages: readonly RelayStage[] }[];
+  readonly fuseCurve: {
+    readonly id: string;
+    readonly melt: readonly CurvePoint[];
+    readonly clear: readonly CurvePoint[];
+  } | null;
+}
+
+export interface FeederFile {
+  readonly feederId: string;
+  readonly status: "studied" | "failed" | "valid" | "set_aside";
+  readonly failure?: string;
+  readonly summary: FeederSummary;
+  readonly cases: readonly CaseOutcome[];
+  readonly findings: readonly Finding[];
+  readonly needs: readonly Need[];
+  readonly headroom: DgHeadroom | null;
+  readonly devices: readonly DeviceCurves[];
+  readonly diagnostics: readonly Diagnostic[];
+  readonly caution: string;
+}
