@@ -55,6 +55,7 @@ CREATE TABLE IF NOT EXISTS feeder_results (
   tool_version TEXT NOT NULL, status TEXT NOT NULL, result_file TEXT NOT NULL,
   findings TEXT NOT NULL, diagnostics TEXT NOT NULL,
   v_min_pu REAL, v_max_pu REAL, max_loading_percent REAL, max_dg_change_percent REAL,
+  needs TEXT NOT NULL DEFAULT '[]', headroom TEXT,
   PRIMARY KEY (run_id, feeder_id)
 );
 CREATE INDEX IF NOT EXISTS feeder_results_cache
@@ -75,7 +76,20 @@ function toRecord(r: Row): FeederRecord {
     vMaxPu: r.v_max_pu as number | null,
     maxLoadingPercent: r.max_loading_percent as number | null,
     maxDgChangePercent: r.max_dg_change_percent as number | null,
+    needs: JSON.parse(String(r.needs ?? "[]")),
+    headroom: r.headroom === null || r.headroom === undefined ? null : JSON.parse(String(r.headroom)),
   };
+}
+
+/** Stores made before the ranking stage lack its columns: add them. */
+function addMissingColumns(db: DatabaseSync): void {
+  const have = new Set(
+    (db.prepare("PRAGMA table_info(feeder_results)").all() as Row[]).map((r) => String(r.name)),
+  );
+  if (!have.has("needs")) {
+    db.exec("ALTER TABLE feeder_results ADD COLUMN needs TEXT NOT NULL DEFAULT '[]'");
+  }
+  if (!have.has("headroom")) db.exec("ALTER TABLE feeder_results ADD COLUMN headroom TEXT");
 }
 
 export async function openRunStore(path: string): Promise<RunStore> {
@@ -84,6 +98,7 @@ export async function openRunStore(path: string): Promise<RunStore> {
   // Several processes (shards on one machine) may share a store: wait for the writer lock.
   db.exec("PRAGMA busy_timeout = 60000; PRAGMA journal_mode = WAL; PRAGMA synchronous = NORMAL;");
   db.exec(SCHEMA);
+  addMissingColumns(db);
   const insertRun = db.prepare(
     `INSERT INTO runs (network, pipeline, out_dir, input_hash, config_hash, tool_version, started_at)
      VALUES (?, ?, ?, ?, ?, ?, ?)`,
@@ -92,7 +107,7 @@ export async function openRunStore(path: string): Promise<RunStore> {
   const insertFeeder = db.prepare(
     `INSERT OR REPLACE INTO feeder_results (run_id, feeder_id, form_hash, config_hash, tool_version,
        status, result_file, findings, diagnostics, v_min_pu, v_max_pu, max_loading_percent,
-       max_dg_change_percent) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+       max_dg_change_percent, needs, headroom) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
   );
   const cached = db.prepare(
     `SELECT * FROM feeder_results WHERE feeder_id = ? AND form_hash = ? AND config_hash = ?
@@ -152,6 +167,8 @@ export async function openRunStore(path: string): Promise<RunStore> {
         r.vMaxPu,
         r.maxLoadingPercent,
         r.maxDgChangePercent,
+        JSON.stringify(r.needs),
+        r.headroom === null ? null : JSON.stringify(r.headroom),
       );
       if (++pendingRows >= 500 || performance.now() - batchStart > 500) flush();
     },

@@ -97,6 +97,8 @@ function emptyRecord(
     vMaxPu: null,
     maxLoadingPercent: null,
     maxDgChangePercent: null,
+    needs: [],
+    headroom: null,
   };
 }
 

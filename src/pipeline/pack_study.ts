@@ -8,6 +8,7 @@ import type { Finding } from "../checks/finding.ts";
 import type { FeederSummary } from "../model/summarize_feeder.ts";
 import { feederJson } from "../report/run_files.ts";
 import type { FeederStudy } from "./study_feeder.ts";
+import type { DgHeadroom, Need } from "../rank/need.ts";
 
 export interface PackedStudy {
   readonly status: FeederStudy["status"];
@@ -18,6 +19,8 @@ export interface PackedStudy {
   readonly vMaxPu: number | null;
   readonly maxLoadingPercent: number | null;
   readonly maxDgChangePercent: number | null;
+  readonly needs: readonly Need[];
+  readonly headroom: DgHeadroom | null;
 }
 
 function extreme(
@@ -40,5 +43,7 @@ export function packStudy(summary: FeederSummary, study: FeederStudy): PackedStu
     vMaxPu: extreme(c.map((x) => x.vMaxPu), Math.max),
     maxLoadingPercent: extreme(c.map((x) => x.maxLoadingPercent), Math.max),
     maxDgChangePercent: extreme(c.map((x) => x.maxDgChangePercent), Math.max),
+    needs: study.needs,
+    headroom: study.headroom,
   };
 }

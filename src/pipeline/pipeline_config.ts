@@ -28,6 +28,15 @@ import {
   type LoadFlowOptions,
 } from "../solve/load_flow_types.ts";
 import type { CheckLimits, CheckSelection, VoltageRange } from "../checks/check_options.ts";
+import {
+  type CostTable,
+  DEFAULT_COST_TABLE,
+  DEFAULT_RANKING_OPTIONS,
+  DEFAULT_REMEDY_OPTIONS,
+  type RankingOptions,
+  type RemedyOptions,
+} from "../rank/cost_table.ts";
+import { costTableSchema, rankingOptionsSchema, remedyOptionsSchema } from "./_ranking_schema.ts";
 
 export type { VoltageRange };
 
@@ -57,6 +66,9 @@ export interface PipelineOutput {
 
 /** A parsed pipeline config: every field filled, defaults included. */
 export interface PipelineConfig {
+  readonly costs: CostTable;
+  readonly remedies: RemedyOptions;
+  readonly ranking: RankingOptions;
   readonly name?: string | undefined;
   readonly description?: string | undefined;
   readonly cases: readonly PipelineCase[];
@@ -124,6 +136,9 @@ export const DEFAULT_PIPELINE: PipelineConfig = {
     losses: true,
   },
   output: { busResults: true, branchResults: true },
+  costs: DEFAULT_COST_TABLE,
+  remedies: DEFAULT_REMEDY_OPTIONS,
+  ranking: DEFAULT_RANKING_OPTIONS,
 };
 
 const L = DEFAULT_PIPELINE.limits, S = DEFAULT_PIPELINE.solver;
@@ -253,6 +268,9 @@ export const pipelineConfigSchema: z.ZodType<PipelineConfig, unknown> = z.strict
     busResults: flag(O.busResults),
     branchResults: flag(O.branchResults),
   }).prefault({}),
+  costs: costTableSchema.prefault({}),
+  remedies: remedyOptionsSchema.prefault({}),
+  ranking: rankingOptionsSchema.prefault({}),
 });
 
 /**

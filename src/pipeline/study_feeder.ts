@@ -14,17 +14,27 @@ import { checkVoltageBand } from "../checks/check_voltage_band.ts";
 import { checkVoltageChange, voltageChangePercent } from "../checks/check_voltage_change.ts";
 import { computeVoltageChangeParts } from "../checks/voltage_change_parts.ts";
 import { branchLoadingPercent, checkFlows } from "../checks/check_flows.ts";
+import type { DgHeadroom, Need } from "../rank/need.ts";
+import type { CostTable, RemedyOptions } from "../rank/cost_table.ts";
+import { assessFeeder } from "../rank/assess_feeder.ts";
+import type { DeviceCurves } from "../report/feeder_file.ts";
+import { describeDevices } from "../report/describe_devices.ts";
 
 export interface StudyCase extends LoadFlowCase {
   readonly label?: string | undefined;
 }
 
-export interface StudySettings {
+export interface CaseSettings {
   readonly cases: readonly StudyCase[];
   readonly limits: CheckLimits;
   readonly checks: CheckSelection;
   readonly solver: LoadFlowOptions;
   readonly output: { readonly busResults: boolean; readonly branchResults: boolean };
+}
+
+export interface StudySettings extends CaseSettings {
+  readonly costs: CostTable;
+  readonly remedies: RemedyOptions;
 }
 
 export interface BusRow {
@@ -77,12 +87,20 @@ export interface CaseOutcome {
   readonly branches?: readonly BranchRow[];
 }
 
-export interface FeederStudy {
+/** The load flows and checks of every case. */
+export interface CasesStudy {
   readonly feederId: string;
   readonly status: "studied" | "failed";
   readonly cases: readonly CaseOutcome[];
   readonly findings: readonly Finding[];
   readonly diagnostics: readonly Diagnostic[];
+}
+
+/** The whole study of a feeder: its cases, and its needs with their remedies. */
+export interface FeederStudy extends CasesStudy {
+  readonly needs: readonly Need[];
+  readonly headroom: DgHeadroom | null;
+  readonly devices: readonly DeviceCurves[];
 }
 
 const round = (v: number, digits: number) => {
@@ -92,6 +110,15 @@ const round = (v: number, digits: number) => {
 };
 
 export function studyFeeder(form: FeederForm, settings: StudySettings): FeederStudy {
+  const cases = studyCases(form, settings);
+  const assessed = cases.status === "studied"
+    ? assessFeeder(form, settings, cases.findings)
+    : { needs: [], headroom: null };
+  return { ...cases, ...assessed, devices: describeDevices(form) };
+}
+
+/** Every case's load flow and checks (what remedy trials repeat on changed forms). */
+export function studyCases(form: FeederForm, settings: CaseSettings): CasesStudy {
   const prepared = prepareLoadFlow(form);
   const diagnostics: Diagnostic[] = [];
   const solved = new Map<string, LoadFlowResult>();

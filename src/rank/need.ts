@@ -37,7 +37,8 @@ export type RemedyKind =
   | "tap_setpoint"
   | "voltage_regulator"
   | "reconductor"
-  | "transformer";
+  | "transformer"
+  | "switchgear";
 
 /** A line of a remedy's bill of quantities. */
 export interface RemedyItem {

@@ -1,0 +1,337 @@
+/**
+ * The remedies the design tries for each need kind, in the order planners try them:
+ * control settings (reactive mode of the generators, the tap changer's set-point), voltage
+ * regulation, reconductoring, a new transformer or switching device. Each candidate is a
+ * changed copy of the form with its bill of quantities; design_remedies.ts checks it.
+ */
+import { BRANCH_LINE, type FeederForm, GENERATOR_INDUCTION } from "../model/feeder_form.ts";
+import type { ReactiveCurve, ReactiveMode } from "../model/network.ts";
+import type { CatalogueConductor, CostTable, RemedyOptions } from "./cost_table.ts";
+import type { NeedKind, RemedyItem, RemedyKind } from "./need.ts";
+import type { NeedDraft } from "./classify_needs.ts";
+import {
+  withBranchRating,
+  withLineRegulator,
+  withLinesRebuilt,
+  withReactiveModes,
+  withTapSetpoint,
+  withTransformerRating,
+} from "./modify_form.ts";
+
+export interface Candidate {
+  readonly kind: RemedyKind;
+  readonly description: string;
+  readonly items: readonly RemedyItem[];
+  readonly form: FeederForm;
+}
+
+export interface CandidateContext {
+  readonly form: FeederForm;
+  readonly costs: CostTable;
+  readonly options: RemedyOptions;
+  readonly lvMaxKv: number;
+}
+
+/** Remedy kinds tried per need kind, in order. */
+export const REMEDY_ORDER: Readonly<Record<NeedKind, readonly RemedyKind[]>> = {
+  overvoltage: ["reactive_mode", "tap_setpoint", "voltage_regulator", "reconductor"],
+  voltage_change: ["reactive_mode", "voltage_regulator", "reconductor"],
+  undervoltage: ["tap_setpoint", "voltage_regulator", "reconductor"],
+  line_overload: ["reconductor"],
+  transformer_overload: ["transformer"],
+  device_overload: ["switchgear"],
+};
+
+/**
+ * Volt-var curve of the reactive-mode remedy: IEEE 1547-2018 Category B default
+ * (REFERENCES.md E [memory]): +44 % of rating at 0.92 pu, dead band 0.98–1.02 pu, −44 % at
+ * 1.08 pu (positive = injection).
+ */
+export const REMEDY_VOLT_VAR_CURVE: ReactiveCurve = {
+  id: "remedy:volt-var-category-b",
+  kind: "volt_var",
+  points: [{ x: 0.92, y: 0.44 }, { x: 0.98, y: 0 }, { x: 1.02, y: 0 }, { x: 1.08, y: -0.44 }],
+  at: { file: "pipeline" },
+};
+
+export function* candidatesFor(
+  kind: RemedyKind,
+  need: NeedDraft,
+  ctx: CandidateContext,
+): Generator<Candidate> {
+  switch (kind) {
+    case "reactive_mode":
+      yield* reactiveCandidates(ctx);
+      break;
+    case "tap_setpoint":
+      yield* tapCandidates(ctx, need.kind === "undervoltage" ? 1 : -1);
+      break;
+    case "voltage_regulator":
+      yield* regulatorCandidates(need, ctx);
+      break;
+    case "reconductor":
+      yield* need.kind === "line_overload"
+        ? overloadReconductorCandidates(need, ctx)
+        : pathReconductorCandidates(need, ctx);
+      break;
+    case "transformer":
+      yield* transformerCandidates(need, ctx);
+      break;
+    case "switchgear":
+      yield* switchgearCandidates(need, ctx);
+      break;
+  }
+}
+
+function item(what: string, quantity: number, unit: string, unitCost: number): RemedyItem {
+  return { what, quantity: round(quantity, 3), unit, unitCost, cost: round(quantity * unitCost, 2) };
+}
+
+/** Generators whose reactive mode can be changed to absorb: not induction, not already absorbing. */
+function* reactiveCandidates(ctx: CandidateContext): Generator<Candidate> {
+  const g = ctx.form.generators;
+  const eligible: number[] = [];
+  for (let i = 0; i < g.n; i++) {
+    if (g.kind[i] === GENERATOR_INDUCTION) continue;
+    const r = g.reactive[i]!;
+    const injecting = r.mode === "unity" ||
+      (r.mode === "fixed_power_factor" && r.sense === "injecting") ||
+      (r.mode === "fixed_q" && r.qKvar >= 0);
+    if (injecting) eligible.push(i);
+  }
+  eligible.sort((a, b) => g.pKw[b]! - g.pKw[a]! || (g.ids[a]! < g.ids[b]! ? -1 : 1));
+  const pf = ctx.options.absorbingPowerFactor;
+  for (let size = 1;; size = Math.min(2 * size, eligible.length)) {
+    if (eligible.length === 0) return;
+    const chosen = eligible.slice(0, size);
+    const ids = chosen.map((i) => `"${g.ids[i]}"`).join(", ");
+    const cost = item("reactive-mode change of a generator", size, "each", ctx.costs.reactiveSettingPerGenerator);
+    const modes = (mode: ReactiveMode) => new Map(chosen.map((i) => [i, mode]));
+    yield {
+      kind: "reactive_mode",
+      description: `Set ${ids} to volt-var Q(U) on the IEEE 1547-2018 Category B default curve`,
+      items: [cost],
+      form: withReactiveModes(
+        ctx.form,
+        modes({ mode: "volt_var", curveId: REMEDY_VOLT_VAR_CURVE.id }),
+        REMEDY_VOLT_VAR_CURVE,
+      ),
+    };
+    yield {
+      kind: "reactive_mode",
+      description: `Set ${ids} to a fixed power factor of ${pf} absorbing`,
+      items: [cost],
+      form: withReactiveModes(
+        ctx.form,
+        modes({ mode: "fixed_power_factor", powerFactor: pf, sense: "absorbing" }),
+      ),
+    };
+    if (size === eligible.length) return;
+  }
+}
+
+/** Substation on-load tap changers with voltage control: set-point moved by up to four half-bands. */
+function* tapCandidates(ctx: CandidateContext, direction: 1 | -1): Generator<Candidate> {
+  const f = ctx.form;
+  for (let ti = 0; ti < f.transformers.length; ti++) {
+    const t = f.transformers[ti]!;
+    const c = t.tap.control;
+    if (!t.tap.onLoad || c === undefined || f.branchTo[t.branch]! >= f.substationBusCount) continue;
+    const step = Math.max(c.bandPu / 2, t.tap.stepPercent / 100);
+    for (let k = 1; k <= 4; k++) {
+      const v = round(c.vSetPu + direction * k * step, 4);
+      yield {
+        kind: "tap_setpoint",
+        description: `${direction > 0 ? "Raise" : "Lower"} the voltage set-point of on-load tap changer "${t.id}" from ${c.vSetPu} to ${v} pu; the busbar supplies other feeders too, which must be studied with the new set-point`,
+        items: [item("tap-changer set-point change", 1, "each", ctx.costs.tapSetpointChange)],
+        form: withTapSetpoint(f, ti, v),
+      };
+    }
+  }
+}
+
+/** Tree line branches from the source to bus k, source end first. */
+function pathLines(form: FeederForm, k: number): number[] {
+  const out: number[] = [];
+  for (let b = k; b > 0; b = form.parent[b]!) {
+    if (form.branchKind[b - 1] === BRANCH_LINE) out.push(b - 1);
+  }
+  return out.reverse();
+}
+
+function worstBus(need: NeedDraft, form: FeederForm): number {
+  return need.worst.where.kind === "bus" ? form.busIds.indexOf(need.worst.where.id) : -1;
+}
+
+/** A line regulator at a third, half and two thirds of the path resistance to the worst bus. */
+function* regulatorCandidates(need: NeedDraft, ctx: CandidateContext): Generator<Candidate> {
+  const f = ctx.form;
+  const k = worstBus(need, f);
+  if (k < 0) return;
+  const path = pathLines(f, k);
+  const total = path.reduce((s, b) => s + f.r1Ohm[b]!, 0);
+  const vSet = need.kind === "undervoltage" ? 1.02 : 1.0;
+  const tried = new Set<number>();
+  for (const share of [0.5, 1 / 3, 2 / 3]) {
+    let acc = 0;
+    const at = path.find((b) => (acc += f.r1Ohm[b]!) >= share * total);
+    if (at === undefined || tried.has(at)) continue;
+    tried.add(at);
+    yield {
+      kind: "voltage_regulator",
+      description: `Install a line voltage regulator (±${ctx.options.regulatorRangePercent} %, set-point ${vSet} pu) on line "${f.branchIds[at]}"`,
+      items: [item("line voltage regulator", 1, "each", ctx.costs.voltageRegulator)],
+      form: withLineRegulator(f, at, vSet, ctx.options.regulatorRangePercent),
+    };
+  }
+}
+
+function levelOf(form: FeederForm, b: number, lvMaxKv: number): "mv" | "lv" {
+  return form.vnKv[form.branchTo[b]!]! <= lvMaxKv ? "lv" : "mv";
+}
+
+/** Catalogue conductors for line b that satisfy `ok`, the line's own construction first, then by cost. */
+function conductorsFor(
+  ctx: CandidateContext,
+  b: number,
+  ok: (c: CatalogueConductor) => boolean,
+): CatalogueConductor[] {
+  const f = ctx.form;
+  const level = levelOf(f, b, ctx.lvMaxKv);
+  const construction = f.cable[b] === 1 ? "cable" : "overhead";
+  return ctx.costs.conductors
+    .filter((c) => c.level === level && ok(c))
+    .sort((a, c) =>
+      Number(a.construction !== construction) - Number(c.construction !== construction) ||
+      a.costPerKm - c.costPerKm
+    );
+}
+
+function reconductorItems(form: FeederForm, rebuilt: ReadonlyMap<number, CatalogueConductor>) {
+  const km = new Map<CatalogueConductor, number>();
+  for (const [b, c] of rebuilt) km.set(c, (km.get(c) ?? 0) + form.lengthKm[b]!);
+  return [...km].map(([c, l]) => item(`rebuild line with ${c.conductorClass}`, l, "km", c.costPerKm));
+}
+
+function describeRebuild(form: FeederForm, rebuilt: ReadonlyMap<number, CatalogueConductor>): string {
+  const km = [...rebuilt.keys()].reduce((s, b) => s + form.lengthKm[b]!, 0);
+  const names = [...rebuilt.keys()].map((b) => `"${form.branchIds[b]}"`);
+  const shown = names.length > 6 ? `${names.slice(0, 6).join(", ")} and ${names.length - 6} more` : names.join(", ");
+  return `Rebuild ${round(km, 3)} km of line (${shown}) with lower-impedance conductor`;
+}
+
+/**
+ * Voltage needs: rebuild the lines on the path to the worst bus, the largest section
+ * resistance first, one more line per candidate, with a catalogue conductor of at least
+ * 20 % less resistance per km and no less ampacity.
+ */
+function* pathReconductorCandidates(need: NeedDraft, ctx: CandidateContext): Generator<Candidate> {
+  const f = ctx.form;
+  const k = worstBus(need, f);
+  if (k < 0) return;
+  const order = pathLines(f, k).sort((a, b) => f.r1Ohm[b]! - f.r1Ohm[a]! || a - b);
+  const rebuilt = new Map<number, CatalogueConductor>();
+  for (const b of order) {
+    const rPerKm = f.lengthKm[b]! > 0 ? f.r1Ohm[b]! / f.lengthKm[b]! : 0;
+    const rating = f.ratingA[b]!;
+    const pick = conductorsFor(
+      ctx,
+      b,
+      (c) => c.r1OhmPerKm <= 0.8 * rPerKm && (!Number.isFinite(rating) || c.ampacityA >= rating),
+    )[0];
+    if (pick === undefined) continue;
+    rebuilt.set(b, pick);
+    const copy = new Map(rebuilt);
+    yield {
+      kind: "reconductor",
+      description: describeRebuild(f, copy),
+      items: reconductorItems(f, copy),
+      form: withLinesRebuilt(f, copy),
+    };
+  }
+}
+
+/** Worst value per branch among a need's findings (loading in %). */
+function worstPerBranch(need: NeedDraft, form: FeederForm): Map<number, number> {
+  const out = new Map<number, number>();
+  for (const e of need.evidence) {
+    const b = form.branchIds.indexOf(e.where.id);
+    if (b >= 0) out.set(b, Math.max(out.get(b) ?? 0, e.value / e.limit));
+  }
+  return out;
+}
+
+/** Overloaded lines rebuilt with the cheapest (then the next) conductor that carries the current. */
+function* overloadReconductorCandidates(need: NeedDraft, ctx: CandidateContext): Generator<Candidate> {
+  const f = ctx.form;
+  const over = worstPerBranch(need, f);
+  for (let grade = 0; grade < 2; grade++) {
+    const rebuilt = new Map<number, CatalogueConductor>();
+    for (const [b, ratio] of over) {
+      const needA = f.ratingA[b]! * ratio;
+      const fits = conductorsFor(ctx, b, (c) => c.ampacityA >= needA)
+        .sort((a, c) => a.costPerKm - c.costPerKm);
+      const pick = fits[Math.min(grade, fits.length - 1)];
+      if (pick === undefined) return;
+      rebuilt.set(b, pick);
+    }
+    yield {
+      kind: "reconductor",
+      description: describeRebuild(f, rebuilt),
+      items: reconductorItems(f, rebuilt),
+      form: withLinesRebuilt(f, rebuilt),
+    };
+  }
+}
+
+/** Overloaded transformers replaced by the next standard sizes that carry the load. */
+function* transformerCandidates(need: NeedDraft, ctx: CandidateContext): Generator<Candidate> {
+  const f = ctx.form;
+  const over = worstPerBranch(need, f);
+  for (let grade = 0; grade < 2; grade++) {
+    let form = f;
+    const items: RemedyItem[] = [];
+    const parts: string[] = [];
+    for (const [b, ratio] of over) {
+      const ti = f.transformers.findIndex((t) => t.branch === b);
+      const t = f.transformers[ti];
+      if (t === undefined) return;
+      const sizes = ctx.options.transformerSizesMva.filter((s) => s >= t.sRatedMva * ratio);
+      const size = sizes[grade];
+      if (size === undefined) return;
+      form = withTransformerRating(form, ti, size);
+      items.push(item(`new ${size} MVA transformer (fixed part)`, 1, "each", ctx.costs.transformerFixed));
+      items.push(item(`new ${size} MVA transformer (per MVA)`, size, "MVA", ctx.costs.transformerPerMva));
+      parts.push(`"${t.id}" (${t.sRatedMva} MVA) by a ${size} MVA unit`);
+    }
+    yield { kind: "transformer", description: `Replace transformer ${parts.join(", ")}`, items, form };
+  }
+}
+
+/** Overloaded switching devices replaced by the next standard ratings that carry the current. */
+function* switchgearCandidates(need: NeedDraft, ctx: CandidateContext): Generator<Candidate> {
+  const f = ctx.form;
+  const over = worstPerBranch(need, f);
+  for (let grade = 0; grade < 2; grade++) {
+    let form = f;
+    const parts: string[] = [];
+    for (const [b, ratio] of over) {
+      const ratings = ctx.options.switchRatingsA.filter((a) => a >= f.ratingA[b]! * ratio);
+      const rating = ratings[grade];
+      if (rating === undefined) return;
+      form = withBranchRating(form, b, rating);
+      parts.push(`"${f.branchIds[b]}" by a ${rating} A device`);
+    }
+    yield {
+      kind: "switchgear",
+      description: `Replace switching device ${parts.join(", ")}`,
+      items: [item("switching device replacement", over.size, "each", ctx.costs.switchgearReplacement)],
+      form,
+    };
+  }
+}
+
+function round(v: number, digits: number): number {
+  const f = 10 ** digits;
+  return Math.round(v * f) / f;
+}

@@ -1,0 +1,162 @@
+/**
+ * From findings to needs: each violation finding belongs to a need kind (overvoltage,
+ * undervoltage, generation-caused voltage change, line, transformer or switching-device
+ * overload) and each kind to a severity class. One need per kind per feeder gathers all
+ * its findings as evidence, names the worst one and counts the customers it touches.
+ * Warnings and information do not make needs. Later studies add their codes to NEED_RULES.
+ */
+import { BRANCH_LINE, BRANCH_TRANSFORMER, type FeederForm } from "../model/feeder_form.ts";
+import type { Finding } from "../checks/finding.ts";
+import type { Need, NeedClass, NeedEvidence, NeedKind } from "./need.ts";
+
+/** Which need kind and class a violation code makes; a branch finding's kind may depend on the branch. */
+export const NEED_RULES: Readonly<
+  Record<string, { readonly needClass: NeedClass; readonly kind: NeedKind | "by_branch" }>
+> = {
+  "voltage.above_band": { needClass: "statutory", kind: "overvoltage" },
+  "voltage.below_band": { needClass: "statutory", kind: "undervoltage" },
+  "voltage.dg_change": { needClass: "planning", kind: "voltage_change" },
+  "thermal.overload": { needClass: "statutory", kind: "by_branch" },
+};
+
+const NEED_KIND_ORDER: readonly NeedKind[] = [
+  "overvoltage",
+  "undervoltage",
+  "voltage_change",
+  "line_overload",
+  "transformer_overload",
+  "device_overload",
+];
+
+/** A need before its remedy is designed. */
+export type NeedDraft = Omit<Need, "remedy" | "tried">;
+
+/** The need kind a violation finding belongs to, or null when it makes no need. */
+export function needKindOf(
+  form: FeederForm,
+  f: Pick<Finding, "code" | "severity" | "where">,
+): NeedKind | null {
+  const rule = NEED_RULES[f.code];
+  if (rule === undefined || f.severity !== "violation") return null;
+  if (rule.kind !== "by_branch") return rule.kind;
+  const b = form.branchIds.indexOf(f.where.id);
+  const kind = b < 0 ? -1 : form.branchKind[b];
+  return kind === BRANCH_LINE
+    ? "line_overload"
+    : kind === BRANCH_TRANSFORMER
+    ? "transformer_overload"
+    : "device_overload";
+}
+
+/**
+ * Excess of a finding over what its limit allows, in % of the allowed margin: for the
+ * voltage band the margin is the band edge's distance from 1 pu (1.12 pu against a
+ * 1.10 pu edge is 20 %); for every other limit the limit itself (120 % loading against
+ * 100 % is 20 %).
+ */
+export function excessPercent(f: Pick<Finding, "code" | "value" | "limit">): number {
+  if (f.code === "voltage.above_band" || f.code === "voltage.below_band") {
+    const margin = Math.abs(f.limit - 1);
+    return margin > 0 ? 100 * Math.abs(f.value - f.limit) / margin : 0;
+  }
+  const limit = Math.abs(f.limit);
+  return limit > 0 ? 100 * (Math.abs(f.value) - limit) / limit : 0;
+}
+
+/** Customers at each bus: those given on the bus plus those of its loads. */
+export function customersAt(form: FeederForm): Float64Array {
+  const out = Float64Array.from(form.customers);
+  const l = form.loads;
+  for (let i = 0; i < l.n; i++) out[l.bus[i]!] = out[l.bus[i]!]! + l.customers[i]!;
+  return out;
+}
+
+/** Customers at each bus and beyond it (its subtree), from the breadth-first order. */
+export function customersBeyond(form: FeederForm, at: Float64Array): Float64Array {
+  const out = Float64Array.from(at);
+  for (let k = form.nBus - 1; k > 0; k--) out[form.parent[k]!] = out[form.parent[k]!]! + out[k]!;
+  return out;
+}
+
+export function classifyNeeds(form: FeederForm, findings: readonly Finding[]): NeedDraft[] {
+  const groups = new Map<NeedKind, Finding[]>();
+  for (const f of findings) {
+    const kind = needKindOf(form, f);
+    if (kind === null) continue;
+    const list = groups.get(kind) ?? [];
+    list.push(f);
+    groups.set(kind, list);
+  }
+  const busIndex = new Map(form.busIds.map((id, k) => [id, k]));
+  const at = customersAt(form);
+  const beyond = customersBeyond(form, at);
+  const drafts: NeedDraft[] = [];
+  for (const kind of NEED_KIND_ORDER) {
+    const list = groups.get(kind);
+    if (list === undefined) continue;
+    let worst = list[0]!;
+    for (const f of list) if (excessPercent(f) > excessPercent(worst)) worst = f;
+    // Customers: at the buses named, or beyond the branches named; each bus counted once.
+    const touched = new Set<number>();
+    let customers = 0;
+    for (const f of list) {
+      if (f.where.kind === "bus") {
+        const k = busIndex.get(f.where.id);
+        if (k !== undefined && !touched.has(k)) {
+          touched.add(k);
+          customers += at[k]!;
+        }
+      } else if (f.where.kind === "branch") {
+        const b = form.branchIds.indexOf(f.where.id);
+        if (b >= 0) customers = Math.max(customers, beyond[form.branchTo[b]!]!);
+      }
+    }
+    const places = new Set(list.map((f) => f.where.id));
+    const cases = [...new Set(list.map((f) => f.caseId))];
+    drafts.push({
+      feederId: form.feederId,
+      id: `${form.feederId}/${kind}`,
+      kind,
+      needClass: NEED_RULES[worst.code]!.needClass,
+      summary: summarize(kind, worst, places.size, cases),
+      worst: evidenceOf(worst),
+      excessPercent: round(excessPercent(worst), 3),
+      evidence: list.map(evidenceOf),
+      customers,
+    });
+  }
+  return drafts;
+}
+
+function evidenceOf(f: Finding): NeedEvidence {
+  return {
+    code: f.code,
+    caseId: f.caseId,
+    where: f.where,
+    value: round(f.value, 6),
+    limit: f.limit,
+    unit: f.unit,
+  };
+}
+
+const WHAT: Record<NeedKind, string> = {
+  overvoltage: "Voltage above the band",
+  undervoltage: "Voltage below the band",
+  voltage_change: "Generation changes the voltage beyond the planning limit",
+  line_overload: "Line overloaded",
+  transformer_overload: "Transformer overloaded",
+  device_overload: "Switching device overloaded",
+};
+
+function summarize(kind: NeedKind, worst: Finding, places: number, cases: string[]): string {
+  const v = worst.unit === "pu" ? worst.value.toFixed(3) : worst.value.toFixed(1);
+  const at = `${worst.where.kind} "${worst.where.id}"`;
+  const more = places > 1 ? ` and ${places - 1} more place(s)` : "";
+  return `${WHAT[kind]}: worst ${v} ${worst.unit} at ${at} against ${worst.limit} ${worst.unit}` +
+    `${more}, in case(s) ${cases.join(", ")}`;
+}
+
+function round(v: number, digits: number): number {
+  const f = 10 ** digits;
+  return Math.round(v * f) / f;
+}

@@ -1,0 +1,105 @@
+/**
+ * Remedy design: for each need, the candidates of every remedy kind in the planners'
+ * order are tried one by one until one removes the need — checked by studying the feeder
+ * again with the remedy applied, every case and every check — without causing a need of a
+ * kind the feeder did not have. Of the kinds that succeed, the cheapest wins (ties go to
+ * the earlier kind). What each kind gave is kept as `tried`, for the evidence.
+ */
+import type { FeederForm } from "../model/feeder_form.ts";
+import { type CaseSettings, studyCases } from "../pipeline/study_feeder.ts";
+import type { CostTable, RemedyOptions } from "./cost_table.ts";
+import type { DgHeadroom, Need, NeedKind, Remedy, RemedyTried } from "./need.ts";
+import { type NeedDraft, needKindOf } from "./classify_needs.ts";
+import { type Candidate, candidatesFor, REMEDY_ORDER } from "./_remedy_candidates.ts";
+import { computeDgHeadroom } from "./dg_headroom.ts";
+
+export interface RemedySettings {
+  readonly settings: CaseSettings;
+  readonly costs: CostTable;
+  readonly options: RemedyOptions;
+  /** Headroom of the feeder as it is (null without generation). */
+  readonly headroom: DgHeadroom | null;
+}
+
+/** Candidates tried per remedy kind at most (the path reconductoring can offer many). */
+const MAX_TRIALS_PER_KIND = 40;
+
+export function designRemedies(
+  form: FeederForm,
+  drafts: readonly NeedDraft[],
+  s: RemedySettings,
+): Need[] {
+  const lean: CaseSettings = { ...s.settings, output: { busResults: false, branchResults: false } };
+  const kindsBefore = new Set<NeedKind>(drafts.map((d) => d.kind));
+  const ctx = {
+    form,
+    costs: s.costs,
+    options: s.options,
+    lvMaxKv: s.settings.limits.lvMaxKv,
+  };
+  const check = (need: NeedDraft, c: Candidate): string | null => {
+    const r = studyCases(c.form, lean);
+    if (r.status !== "studied") return "the feeder does not solve with it";
+    const left = r.findings.filter((f) => needKindOf(form, f) === need.kind);
+    if (left.length > 0) {
+      return `${left.length} finding(s) of the need remain`;
+    }
+    const caused = [
+      ...new Set(
+        r.findings.map((f) => needKindOf(form, f)).filter((k): k is NeedKind =>
+          k !== null && !kindsBefore.has(k)
+        ),
+      ),
+    ];
+    return caused.length > 0 ? `it causes ${caused.join(", ")}` : null;
+  };
+  return drafts.map((need) => {
+    const tried: RemedyTried[] = [];
+    const found: Candidate[] = [];
+    for (const kind of REMEDY_ORDER[need.kind]) {
+      let trials = 0, lastWhy = "no candidate applies to this feeder", success: Candidate | null = null;
+      for (const c of candidatesFor(kind, need, ctx)) {
+        if (++trials > MAX_TRIALS_PER_KIND) break;
+        const why = check(need, c);
+        if (why === null) {
+          success = c;
+          break;
+        }
+        lastWhy = why;
+      }
+      if (success === null) {
+        tried.push({
+          kind,
+          outcome: trials === 0 ? lastWhy : `${Math.min(trials, MAX_TRIALS_PER_KIND)} trial(s), none removed it: last, ${lastWhy}`,
+        });
+      } else {
+        found.push(success);
+        tried.push({ kind, outcome: `removes it for ${costOf(success)} ${s.costs.currency}` });
+      }
+    }
+    let best: Candidate | null = null;
+    for (const c of found) if (best === null || costOf(c) < costOf(best)) best = c;
+    return { ...need, remedy: best === null ? null : toRemedy(best, s), tried };
+  });
+}
+
+function costOf(c: Candidate): number {
+  return Math.round(c.items.reduce((t, i) => t + i.cost, 0) * 100) / 100;
+}
+
+function toRemedy(c: Candidate, s: RemedySettings): Remedy {
+  let capacityUnlockedMw: number | null = null;
+  if (s.headroom !== null) {
+    const after = computeDgHeadroom(c.form, s.settings, s.options.headroomMaxFactor);
+    if (after !== null) {
+      capacityUnlockedMw = Math.round((after.headroomMw - s.headroom.headroomMw) * 1e4) / 1e4;
+    }
+  }
+  return {
+    kind: c.kind,
+    description: c.description,
+    items: c.items,
+    cost: costOf(c),
+    capacityUnlockedMw,
+  };
+}
