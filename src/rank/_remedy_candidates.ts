@@ -84,7 +84,13 @@ export function* candidatesFor(
 }
 
 function item(what: string, quantity: number, unit: string, unitCost: number): RemedyItem {
-  return { what, quantity: round(quantity, 3), unit, unitCost, cost: round(quantity * unitCost, 2) };
+  return {
+    what,
+    quantity: round(quantity, 3),
+    unit,
+    unitCost,
+    cost: round(quantity * unitCost, 2),
+  };
 }
 
 /** Generators whose reactive mode can be changed to absorb: not induction, not already absorbing. */
@@ -105,7 +111,12 @@ function* reactiveCandidates(ctx: CandidateContext): Generator<Candidate> {
     if (eligible.length === 0) return;
     const chosen = eligible.slice(0, size);
     const ids = chosen.map((i) => `"${g.ids[i]}"`).join(", ");
-    const cost = item("reactive-mode change of a generator", size, "each", ctx.costs.reactiveSettingPerGenerator);
+    const cost = item(
+      "reactive-mode change of a generator",
+      size,
+      "each",
+      ctx.costs.reactiveSettingPerGenerator,
+    );
     const modes = (mode: ReactiveMode) => new Map(chosen.map((i) => [i, mode]));
     yield {
       kind: "reactive_mode",
@@ -142,7 +153,9 @@ function* tapCandidates(ctx: CandidateContext, direction: 1 | -1): Generator<Can
       const v = round(c.vSetPu + direction * k * step, 4);
       yield {
         kind: "tap_setpoint",
-        description: `${direction > 0 ? "Raise" : "Lower"} the voltage set-point of on-load tap changer "${t.id}" from ${c.vSetPu} to ${v} pu; the busbar supplies other feeders too, which must be studied with the new set-point`,
+        description: `${
+          direction > 0 ? "Raise" : "Lower"
+        } the voltage set-point of on-load tap changer "${t.id}" from ${c.vSetPu} to ${v} pu; the busbar supplies other feeders too, which must be studied with the new set-point`,
         items: [item("tap-changer set-point change", 1, "each", ctx.costs.tapSetpointChange)],
         form: withTapSetpoint(f, ti, v),
       };
@@ -179,7 +192,10 @@ function* regulatorCandidates(need: NeedDraft, ctx: CandidateContext): Generator
     tried.add(at);
     yield {
       kind: "voltage_regulator",
-      description: `Install a line voltage regulator (±${ctx.options.regulatorRangePercent} %, set-point ${vSet} pu) on line "${f.branchIds[at]}"`,
+      description:
+        `Install a line voltage regulator (±${ctx.options.regulatorRangePercent} %, set-point ${vSet} pu) on line "${
+          f.branchIds[at]
+        }"`,
       items: [item("line voltage regulator", 1, "each", ctx.costs.voltageRegulator)],
       form: withLineRegulator(f, at, vSet, ctx.options.regulatorRangePercent),
     };
@@ -210,13 +226,20 @@ function conductorsFor(
 function reconductorItems(form: FeederForm, rebuilt: ReadonlyMap<number, CatalogueConductor>) {
   const km = new Map<CatalogueConductor, number>();
   for (const [b, c] of rebuilt) km.set(c, (km.get(c) ?? 0) + form.lengthKm[b]!);
-  return [...km].map(([c, l]) => item(`rebuild line with ${c.conductorClass}`, l, "km", c.costPerKm));
+  return [...km].map(([c, l]) =>
+    item(`rebuild line with ${c.conductorClass}`, l, "km", c.costPerKm)
+  );
 }
 
-function describeRebuild(form: FeederForm, rebuilt: ReadonlyMap<number, CatalogueConductor>): string {
+function describeRebuild(
+  form: FeederForm,
+  rebuilt: ReadonlyMap<number, CatalogueConductor>,
+): string {
   const km = [...rebuilt.keys()].reduce((s, b) => s + form.lengthKm[b]!, 0);
   const names = [...rebuilt.keys()].map((b) => `"${form.branchIds[b]}"`);
-  const shown = names.length > 6 ? `${names.slice(0, 6).join(", ")} and ${names.length - 6} more` : names.join(", ");
+  const shown = names.length > 6
+    ? `${names.slice(0, 6).join(", ")} and ${names.length - 6} more`
+    : names.join(", ");
   return `Rebuild ${round(km, 3)} km of line (${shown}) with lower-impedance conductor`;
 }
 
@@ -262,7 +285,10 @@ function worstPerBranch(need: NeedDraft, form: FeederForm): Map<number, number> 
 }
 
 /** Overloaded lines rebuilt with the cheapest (then the next) conductor that carries the current. */
-function* overloadReconductorCandidates(need: NeedDraft, ctx: CandidateContext): Generator<Candidate> {
+function* overloadReconductorCandidates(
+  need: NeedDraft,
+  ctx: CandidateContext,
+): Generator<Candidate> {
   const f = ctx.form;
   const over = worstPerBranch(need, f);
   for (let grade = 0; grade < 2; grade++) {
@@ -300,11 +326,20 @@ function* transformerCandidates(need: NeedDraft, ctx: CandidateContext): Generat
       const size = sizes[grade];
       if (size === undefined) return;
       form = withTransformerRating(form, ti, size);
-      items.push(item(`new ${size} MVA transformer (fixed part)`, 1, "each", ctx.costs.transformerFixed));
-      items.push(item(`new ${size} MVA transformer (per MVA)`, size, "MVA", ctx.costs.transformerPerMva));
+      items.push(
+        item(`new ${size} MVA transformer (fixed part)`, 1, "each", ctx.costs.transformerFixed),
+      );
+      items.push(
+        item(`new ${size} MVA transformer (per MVA)`, size, "MVA", ctx.costs.transformerPerMva),
+      );
       parts.push(`"${t.id}" (${t.sRatedMva} MVA) by a ${size} MVA unit`);
     }
-    yield { kind: "transformer", description: `Replace transformer ${parts.join(", ")}`, items, form };
+    yield {
+      kind: "transformer",
+      description: `Replace transformer ${parts.join(", ")}`,
+      items,
+      form,
+    };
   }
 }
 
@@ -325,7 +360,9 @@ function* switchgearCandidates(need: NeedDraft, ctx: CandidateContext): Generato
     yield {
       kind: "switchgear",
       description: `Replace switching device ${parts.join(", ")}`,
-      items: [item("switching device replacement", over.size, "each", ctx.costs.switchgearReplacement)],
+      items: [
+        item("switching device replacement", over.size, "each", ctx.costs.switchgearReplacement),
+      ],
       form,
     };
   }

@@ -139,7 +139,26 @@ export const DEFAULT_COST_TABLE: CostTable = {
 
 export const DEFAULT_REMEDY_OPTIONS: RemedyOptions = {
   absorbingPowerFactor: 0.95, // common practice for converter DG on rural MV feeders
-  transformerSizesMva: [0.1, 0.16, 0.25, 0.4, 0.63, 0.8, 1, 1.25, 1.6, 2.5, 4, 6.3, 10, 16, 25, 31.5, 40, 63],
+  transformerSizesMva: [
+    0.1,
+    0.16,
+    0.25,
+    0.4,
+    0.63,
+    0.8,
+    1,
+    1.25,
+    1.6,
+    2.5,
+    4,
+    6.3,
+    10,
+    16,
+    25,
+    31.5,
+    40,
+    63,
+  ],
   switchRatingsA: [200, 400, 630, 800, 1250, 1600, 2000],
   regulatorRangePercent: 10, // common practice: ±10 % in 32 steps
   headroomMaxFactor: 8,

@@ -57,7 +57,9 @@ export function designRemedies(
     const tried: RemedyTried[] = [];
     const found: Candidate[] = [];
     for (const kind of REMEDY_ORDER[need.kind]) {
-      let trials = 0, lastWhy = "no candidate applies to this feeder", success: Candidate | null = null;
+      let trials = 0,
+        lastWhy = "no candidate applies to this feeder",
+        success: Candidate | null = null;
       for (const c of candidatesFor(kind, need, ctx)) {
         if (++trials > MAX_TRIALS_PER_KIND) break;
         const why = check(need, c);
@@ -70,7 +72,11 @@ export function designRemedies(
       if (success === null) {
         tried.push({
           kind,
-          outcome: trials === 0 ? lastWhy : `${Math.min(trials, MAX_TRIALS_PER_KIND)} trial(s), none removed it: last, ${lastWhy}`,
+          outcome: trials === 0
+            ? lastWhy
+            : `${
+              Math.min(trials, MAX_TRIALS_PER_KIND)
+            } trial(s), none removed it: last, ${lastWhy}`,
         });
       } else {
         found.push(success);

@@ -51,7 +51,9 @@ export function rankingCsv(ranking: readonly RankedNeed[], p: RankingProvenance)
   const comments = [
     `# gridtriage ${p.version} ranked upgrade list`,
     `# network ${p.network} (input sha256 ${p.inputHash})`,
-    `# pipeline ${p.pipeline}${p.pipelineName ? ` "${p.pipelineName}"` : ""} (config sha256 ${p.configHash})`,
+    `# pipeline ${p.pipeline}${
+      p.pipelineName ? ` "${p.pipelineName}"` : ""
+    } (config sha256 ${p.configHash})`,
     `# costs in ${p.currency}: ${p.costSource}`,
     `# ${CAUTION}`,
   ].map((l) => l.replace(/[\r\n]+/g, " "));
@@ -70,7 +72,8 @@ export function rankingCsv(ranking: readonly RankedNeed[], p: RankingProvenance)
     n.worst.unit,
     n.excessPercent,
     n.remedy?.kind ?? "",
-    n.remedy?.description ?? `no remedy in the catalogue removes it (${n.tried.map((t) => t.kind).join(", ")} tried)`,
+    n.remedy?.description ??
+      `no remedy in the catalogue removes it (${n.tried.map((t) => t.kind).join(", ")} tried)`,
     n.remedy?.cost ?? "",
     p.currency,
     n.remedy?.capacityUnlockedMw ?? "",

@@ -1,23 +1,15 @@
 /** Balanced load flow against closed forms and control behaviour. */
 import { deepStrictEqual as assertEquals, ok as assert } from "node:assert/strict";
-import { memorySource } from "../ingest/read_network.ts";
-import { validateFleet } from "../pipeline/validate_fleet.ts";
-import type { FeederForm } from "../model/feeder_form.ts";
 import { solveLoadFlow } from "./solve_load_flow.ts";
 import { DEFAULT_LOAD_FLOW_OPTIONS, type LoadFlowCase } from "./load_flow_types.ts";
-import { twoBusFeeder } from "../../tests/fixtures/small_feeders.ts";
+import { formOfTables, twoBusFeeder } from "../../tests/fixtures/small_feeders.ts";
 import { TWO_FEEDERS } from "../../tests/fixtures/two_feeders.ts";
 
 const PEAK: LoadFlowCase = { id: "peak", demand: "peak", demandScale: 1, generationScale: 0 };
 const FULL_DG: LoadFlowCase = { id: "dg", demand: "peak", demandScale: 1, generationScale: 1 };
 const TIGHT = { ...DEFAULT_LOAD_FLOW_OPTIONS, tolerancePu: 1e-12 };
 
-async function formOf(files: Record<string, string>): Promise<FeederForm> {
-  const r = await validateFleet(memorySource(files));
-  const errors = r.diagnostics.filter((d) => d.severity === "error");
-  if (errors.length > 0) throw new Error(JSON.stringify(errors));
-  return r.value.forms[0]!;
-}
+const formOf = formOfTables;
 
 /**
  * Exact receiving-end voltage of a constant-power load P + jQ behind R + jX from a source
