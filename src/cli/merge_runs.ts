@@ -16,6 +16,15 @@ import {
 } from "../report/run_files.ts";
 import { parseDiagnosticsCsv, parseFindingsCsv } from "../report/read_run_files.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
+import { writeRunReports } from "./write_run_reports.ts";
+import { hashPipelineConfig } from "../pipeline/hash_pipeline_config.ts";
+
+/** Counts by key added over several tallies, keys in sorted order. */
+function sumTallies(tallies: readonly Readonly<Record<string, number>>[]): Record<string, number> {
+  const total: Record<string, number> = {};
+  for (const t of tallies) for (const [k, n] of Object.entries(t)) total[k] = (total[k] ?? 0) + n;
+  return Object.fromEntries(Object.entries(total).sort(([a], [b]) => (a < b ? -1 : 1)));
+}
 
 export class MergeError extends Error {}
 
@@ -55,7 +64,16 @@ export async function mergeRuns(shardDirs: readonly string[], outDir: string): P
     throw new MergeError(`shards ${missing.map((i) => `${i}/${count}`).join(", ")} are missing`);
   }
 
+  // The config the shards ran with, as run.json holds it; its hash must be the one recorded.
+  const config = first.config;
+  if (config === undefined || await hashPipelineConfig(config) !== first.configHash) {
+    throw new MergeError(
+      `"${shardDirs[0]}" does not hold the pipeline config it was run with; rerun the shards`,
+    );
+  }
+
   const findings: Finding[] = [];
+  const feederFiles: { feederId: string; path: string }[] = [];
   const diagnostics: Diagnostic[] = [];
   for (const dir of shardDirs) {
     findings.push(...parseFindingsCsv(await Deno.readTextFile(join(dir, "findings.csv"))));
@@ -63,10 +81,10 @@ export async function mergeRuns(shardDirs: readonly string[], outDir: string): P
     await Deno.mkdir(join(outDir, "feeders"), { recursive: true });
     for await (const e of Deno.readDir(join(dir, "feeders"))) {
       if (!e.isFile || !e.name.endsWith(".json")) continue;
-      await writeFileAtomic(
-        join(outDir, "feeders", e.name),
-        await Deno.readTextFile(join(dir, "feeders", e.name)),
-      );
+      const text = await Deno.readTextFile(join(dir, "feeders", e.name));
+      await writeFileAtomic(join(outDir, "feeders", e.name), text);
+      const { feederId } = JSON.parse(text) as { feederId: string };
+      feederFiles.push({ feederId, path: join(outDir, "feeders", e.name) });
     }
   }
   findings.sort(compareFindings);
@@ -75,19 +93,26 @@ export async function mergeRuns(shardDirs: readonly string[], outDir: string): P
   await writeFileAtomic(join(outDir, "diagnostics.csv"), diagnosticsCsv(diagnostics));
   const sum = (k: "feeders" | "studied" | "failed" | "setAside") =>
     records.reduce((s, r) => s + r.counts[k], 0);
-  const { shard: _shard, timing: _timing, ...base } = first;
+  const { shard: _shard, timing: _timing, startedAt: _s, finishedAt: _f, outputs, ...base } = first;
+  const counts = {
+    feeders: sum("feeders"),
+    studied: sum("studied"),
+    failed: sum("failed"),
+    setAside: sum("setAside"),
+    findings: tallyBy(findings, (f) => f.severity),
+    diagnostics: tallyBy(diagnostics, (d) => d.severity),
+    needs: sumTallies(records.map((r) => r.counts.needs ?? {})),
+  };
+  const reproduce = base.reproduce === undefined ? {} : {
+    reproduce: { ...base.reproduce, command: base.reproduce.command.replace(/ --shard \S+$/, "") },
+  };
+  const provenance = { ...base, ...reproduce, counts };
+  await writeRunReports({ outDir, feederFiles, record: provenance, config });
   const merged: RunRecord = {
-    ...base,
+    ...provenance,
     startedAt: records.map((r) => r.startedAt).sort()[0]!,
     finishedAt: records.map((r) => r.finishedAt).sort().at(-1)!,
-    counts: {
-      feeders: sum("feeders"),
-      studied: sum("studied"),
-      failed: sum("failed"),
-      setAside: sum("setAside"),
-      findings: tallyBy(findings, (f) => f.severity),
-      diagnostics: tallyBy(diagnostics, (d) => d.severity),
-    },
+    ...(outputs === undefined ? {} : { outputs }),
   };
   await writeFileAtomic(join(outDir, "run.json"), runJson(merged));
   return merged;

@@ -77,7 +77,9 @@ function toRecord(r: Row): FeederRecord {
     maxLoadingPercent: r.max_loading_percent as number | null,
     maxDgChangePercent: r.max_dg_change_percent as number | null,
     needs: JSON.parse(String(r.needs ?? "[]")),
-    headroom: r.headroom === null || r.headroom === undefined ? null : JSON.parse(String(r.headroom)),
+    headroom: r.headroom === null || r.headroom === undefined
+      ? null
+      : JSON.parse(String(r.headroom)),
   };
 }
 

@@ -32,6 +32,24 @@ import { type FeederRecord, openRunStore, type RunStore } from "./run_store.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
 import { partitionNetwork } from "./partition_network.ts";
 import { VERSION } from "./version.ts";
+import { writeRunReports } from "./write_run_reports.ts";
+import type { RankedNeed } from "../rank/need.ts";
+import type { Shard as ShardOf } from "../pipeline/shard.ts";
+
+/** How to run the same study again, for run.json (the regulator's reproduction recipe). */
+function reproduceNote(
+  networkDir: string,
+  pipelinePath: string,
+  shard: ShardOf | undefined,
+): { readonly command: string; readonly runtime: string; readonly check: string } {
+  const shardOption = shard === undefined ? "" : ` --shard ${shard.index}/${shard.count}`;
+  return {
+    command:
+      `gridtriage study ${networkDir} --pipeline ${pipelinePath} --out <new folder>${shardOption}`,
+    runtime: `gridtriage ${VERSION} on Deno ${Deno.version.deno}`,
+    check: "the same inputHash and configHash give the same findings, ranking and feeder files",
+  };
+}
 
 export interface StudyRunOptions {
   /** Worker count; 0 studies in this thread (no crash isolation). */
@@ -72,6 +90,8 @@ export interface StudyRun {
   readonly diagnostics: readonly Diagnostic[];
   readonly cacheHits: number;
   readonly changes: readonly FeederChange[];
+  /** Every need of the fleet, in rank order. */
+  readonly ranking: readonly RankedNeed[];
 }
 
 const WORKER_URL = new URL("../pipeline/study_worker.ts", import.meta.url);
@@ -299,6 +319,38 @@ export async function runStudy(
       diagnostics.sort(compareDiagnostics);
       await writeFileAtomic(join(outAbs, "findings.csv"), findingsCsv(findings));
       await writeFileAtomic(join(outAbs, "diagnostics.csv"), diagnosticsCsv(diagnostics));
+      const studied = all.filter((r) => r.status === "studied").length;
+      const failed = all.filter((r) => r.status === "failed").length;
+      const setAside = all.filter((r) => r.status === "set_aside").length;
+      const needCounts = tallyBy(all.flatMap((r) => r.needs), (n) => n.needClass);
+      const provenance = {
+        ...(options.shard === undefined ? {} : { shard: options.shard }),
+        tool: "gridtriage",
+        version: VERSION,
+        command: "study",
+        network: networkDir,
+        pipeline: pipelinePath,
+        pipelineName: config.name ?? null,
+        inputHash,
+        configHash,
+        reproduce: reproduceNote(networkDir, pipelinePath, options.shard),
+        config,
+        counts: {
+          feeders: feederCount,
+          studied,
+          failed,
+          setAside,
+          findings: tallyBy(findings, (f) => f.severity),
+          diagnostics: tallyBy(diagnostics, (d) => d.severity),
+          needs: needCounts,
+        },
+      };
+      const reports = await writeRunReports({
+        outDir: outAbs,
+        feederFiles: all.map((r) => ({ feederId: r.feederId, path: r.resultFile })),
+        record: provenance,
+        config,
+      });
       const record: RunRecord = {
         ...(options.shard === undefined ? {} : { shard: options.shard }),
         tool: "gridtriage",
@@ -319,14 +371,15 @@ export async function runStudy(
           cacheHits,
           peakRssMb: Math.round(Math.max(peakRss, Deno.memoryUsage().rss) / 2 ** 20),
         },
-        counts: {
-          feeders: feederCount,
-          studied: all.filter((r) => r.status === "studied").length,
-          failed: all.filter((r) => r.status === "failed").length,
-          setAside: all.filter((r) => r.status === "set_aside").length,
-          findings: tallyBy(findings, (f) => f.severity),
-          diagnostics: tallyBy(diagnostics, (d) => d.severity),
-        },
+        outputs: [
+          "findings.csv",
+          "diagnostics.csv",
+          ...reports.files,
+          "feeders/",
+        ],
+        reproduce: provenance.reproduce,
+        config,
+        counts: provenance.counts,
       };
       await writeFileAtomic(join(outAbs, "run.json"), runJson(record));
       if (store !== undefined && runId !== undefined) {
@@ -339,7 +392,7 @@ export async function runStudy(
           before: previous?.feeders.get(after.feederId),
           after,
         }));
-      return { record, findings, diagnostics, cacheHits, changes };
+      return { record, findings, diagnostics, cacheHits, changes, ranking: reports.ranking };
     } finally {
       clearInterval(sampler);
     }

@@ -1,3 +1,4 @@
+import { hashPipelineConfig } from "../pipeline/hash_pipeline_config.ts";
 /** The run folder: every file written, and byte-identical between runs except run.json. */
 import { readTree } from "../../tests/fixtures/read_tree.ts";
 import { deepStrictEqual as assertEquals, ok as assert } from "node:assert/strict";
@@ -19,6 +20,8 @@ Deno.test("runStudy() writes the run folder, identical between runs but for run.
     await runStudy("data-samples/with-errors", "pipelines/nightly.json", config, `${TMP}/b`);
     const ta = await readTree(`${TMP}/a`), tb = await readTree(`${TMP}/b`);
     assertEquals(Object.keys(ta).sort(), [
+      "branches.parquet",
+      "buses.parquet",
       "diagnostics.csv",
       "feeders/SOU-F1.json",
       "feeders/SOU-F2.json",
@@ -26,6 +29,8 @@ Deno.test("runStudy() writes the run folder, identical between runs but for run.
       "feeders/SOU-F4.json",
       "feeders/SOU-F5.json",
       "findings.csv",
+      "fleet.json",
+      "ranking.csv",
       "run.json",
     ]);
     for (const k of Object.keys(ta)) if (k !== "run.json") assertEquals(ta[k], tb[k], k);
@@ -36,6 +41,9 @@ Deno.test("runStudy() writes the run folder, identical between runs but for run.
     assertEquals(run.counts.studied, 2);
     assertEquals(run.inputHash.length, 64);
     assertEquals(a.record.configHash, run.configHash);
+    // What a reproduction needs: the resolved config (whose hash is configHash) and the command.
+    assertEquals(await hashPipelineConfig(run.config), run.configHash);
+    assert(run.reproduce.command.startsWith("gridtriage study data-samples/with-errors"));
     // Set-aside feeders still get a file that says why.
     const f3 = JSON.parse(ta["feeders/SOU-F3.json"]!);
     assertEquals(f3.status, "set_aside");
@@ -62,7 +70,8 @@ Deno.test("runStudy() writes the same bytes with 1, 2 and 4 workers as in one th
       delete t["run.json"];
       trees.push(t);
     }
-    assertEquals(Object.keys(trees[0]!).length, 15); // 13 feeders + findings + diagnostics
+    // 13 feeders, findings, diagnostics, ranking, fleet, buses and branches.
+    assertEquals(Object.keys(trees[0]!).length, 19);
     for (const t of trees.slice(1)) assertEquals(t, trees[0]);
   } finally {
     await Deno.remove(TMP, { recursive: true }).catch(() => {});

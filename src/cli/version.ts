@@ -1,2 +1,2 @@
 /** Tool version, recorded with every run (cache keys and provenance use it). */
-export const VERSION = "0.1.0";
+export const VERSION = "0.2.0";

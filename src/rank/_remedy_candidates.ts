@@ -235,12 +235,19 @@ function describeRebuild(
   form: FeederForm,
   rebuilt: ReadonlyMap<number, CatalogueConductor>,
 ): string {
-  const km = [...rebuilt.keys()].reduce((s, b) => s + form.lengthKm[b]!, 0);
-  const names = [...rebuilt.keys()].map((b) => `"${form.branchIds[b]}"`);
-  const shown = names.length > 6
-    ? `${names.slice(0, 6).join(", ")} and ${names.length - 6} more`
-    : names.join(", ");
-  return `Rebuild ${round(km, 3)} km of line (${shown}) with lower-impedance conductor`;
+  const byClass = new Map<string, number[]>();
+  for (const [b, c] of rebuilt) {
+    byClass.set(c.conductorClass, [...(byClass.get(c.conductorClass) ?? []), b]);
+  }
+  const parts = [...byClass].map(([name, branches]) => {
+    const km = branches.reduce((s, b) => s + form.lengthKm[b]!, 0);
+    const ids = branches.map((b) => `"${form.branchIds[b]}"`);
+    const shown = ids.length > 6
+      ? `${ids.slice(0, 6).join(", ")} and ${ids.length - 6} more`
+      : ids.join(", ");
+    return `${round(km, 3)} km with ${name} (${shown})`;
+  });
+  return `Rebuild line: ${parts.join("; ")}`;
 }
 
 /**
@@ -284,7 +291,10 @@ function worstPerBranch(need: NeedDraft, form: FeederForm): Map<number, number> 
   return out;
 }
 
-/** Overloaded lines rebuilt with the cheapest (then the next) conductor that carries the current. */
+/**
+ * Overloaded lines rebuilt with the cheapest conductor of their own construction that
+ * carries the current (then the next one); another construction only where none does.
+ */
 function* overloadReconductorCandidates(
   need: NeedDraft,
   ctx: CandidateContext,
@@ -295,8 +305,7 @@ function* overloadReconductorCandidates(
     const rebuilt = new Map<number, CatalogueConductor>();
     for (const [b, ratio] of over) {
       const needA = f.ratingA[b]! * ratio;
-      const fits = conductorsFor(ctx, b, (c) => c.ampacityA >= needA)
-        .sort((a, c) => a.costPerKm - c.costPerKm);
+      const fits = conductorsFor(ctx, b, (c) => c.ampacityA >= needA);
       const pick = fits[Math.min(grade, fits.length - 1)];
       if (pick === undefined) return;
       rebuilt.set(b, pick);

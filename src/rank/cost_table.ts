@@ -159,7 +159,7 @@ export const DEFAULT_REMEDY_OPTIONS: RemedyOptions = {
     40,
     63,
   ],
-  switchRatingsA: [200, 400, 630, 800, 1250, 1600, 2000],
+  switchRatingsA: [100, 160, 200, 250, 315, 400, 630, 800, 1250, 1600, 2000], // common practice (IEC preferred ratings)
   regulatorRangePercent: 10, // common practice: ±10 % in 32 steps
   headroomMaxFactor: 8,
 };

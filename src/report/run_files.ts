@@ -7,6 +7,7 @@ import type { Diagnostic } from "../model/diagnostic.ts";
 import type { Finding } from "../checks/finding.ts";
 import type { FeederSummary } from "../model/summarize_feeder.ts";
 import type { FeederStudy } from "../pipeline/study_feeder.ts";
+import type { PipelineConfig } from "../pipeline/pipeline_config.ts";
 
 export const CAUTION =
   "Screening study: verify results with a licensed engineer and against local codes before acting.";
@@ -124,6 +125,16 @@ export interface RunRecord {
   readonly configHash: string;
   readonly startedAt: string;
   readonly finishedAt: string;
+  /** How to run the same study again. */
+  readonly reproduce?: {
+    readonly command: string;
+    readonly runtime: string;
+    readonly check: string;
+  };
+  /** The pipeline config as parsed, every default filled in (what configHash is the hash of). */
+  readonly config?: PipelineConfig;
+  /** The files the run wrote into its folder. */
+  readonly outputs?: readonly string[];
   /** Times of this run (like startedAt, they differ between identical runs). */
   readonly timing?: {
     readonly wallMs: number;
@@ -142,8 +153,13 @@ export interface RunRecord {
     readonly setAside: number;
     readonly findings: Readonly<Record<string, number>>;
     readonly diagnostics: Readonly<Record<string, number>>;
+    /** Needs by class (absent in runs made before the ranking stage). */
+    readonly needs?: Readonly<Record<string, number>>;
   };
 }
+
+/** What a run is, without when it ran: the provenance every deterministic output carries. */
+export type RunProvenance = Omit<RunRecord, "startedAt" | "finishedAt" | "timing" | "outputs">;
 
 export function runJson(record: RunRecord): string {
   return JSON.stringify({ ...record, caution: CAUTION }, null, 2) + "\n";

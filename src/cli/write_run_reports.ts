@@ -1,0 +1,119 @@
+/**
+ * The fleet-level files of a run, built from its feeder files once every feeder is done:
+ * `ranking.csv` and `fleet.json` (the ranked needs), `buses.parquet` and `branches.parquet`
+ * (bus and branch results for analysts) and `report.html`. Feeder files are read one at a
+ * time, in feeder-id order, so memory holds the ranking and one row per feeder, not the
+ * fleet's results. Used by `study` and by `merge`, which therefore write the same bytes.
+ */
+import { join } from "node:path";
+import type { PipelineConfig } from "../pipeline/pipeline_config.ts";
+import type { FeederFile } from "../report/feeder_file.ts";
+import type { FleetFeederRow } from "../report/report_context.ts";
+import type { RunProvenance } from "../report/run_files.ts";
+import type { NeedClass, RankedNeed } from "../rank/need.ts";
+import { rankNeeds } from "../rank/rank_needs.ts";
+import { fleetJson, rankingCsv, type RankingProvenance } from "../report/ranking_files.ts";
+import { createBusParquetWriter } from "../report/bus_parquet.ts";
+import { createBranchParquetWriter } from "../report/branch_parquet.ts";
+import { writeFileAtomic } from "./write_atomic.ts";
+import { openAtomicFile } from "./open_atomic_file.ts";
+
+export interface RunReportInput {
+  readonly outDir: string;
+  /** The run's feeder files, in any order. */
+  readonly feederFiles: readonly { readonly feederId: string; readonly path: string }[];
+  /** The run without its times, so the files stay byte-identical between identical runs. */
+  readonly record: RunProvenance;
+  readonly config: PipelineConfig;
+}
+
+export interface RunReports {
+  readonly ranking: readonly RankedNeed[];
+  readonly files: readonly string[];
+}
+
+export async function writeRunReports(input: RunReportInput): Promise<RunReports> {
+  const { outDir, record, config } = input;
+  const files = [...input.feederFiles].sort((a, b) => cmp(a.feederId, b.feederId));
+  const provenance: RankingProvenance = {
+    tool: record.tool,
+    version: record.version,
+    network: record.network,
+    pipeline: record.pipeline,
+    pipelineName: record.pipelineName,
+    inputHash: record.inputHash,
+    configHash: record.configHash,
+    currency: config.costs.currency,
+    costSource: config.costs.source,
+  };
+  const meta = {
+    tool: record.tool,
+    version: record.version,
+    inputHash: record.inputHash,
+    configHash: record.configHash,
+  };
+  const buses = await openAtomicFile(join(outDir, "buses.parquet"));
+  const branches = await openAtomicFile(join(outDir, "branches.parquet"));
+  const rows: FleetFeederRow[] = [];
+  const needs = [];
+  try {
+    const busWriter = createBusParquetWriter(meta, buses.write);
+    const branchWriter = createBranchParquetWriter(meta, branches.write);
+    for (const f of files) {
+      const file = JSON.parse(await Deno.readTextFile(f.path)) as FeederFile;
+      rows.push(fleetRow(file, config.ranking.classOrder));
+      needs.push(...(file.needs ?? []));
+      await busWriter.addFeeder(file);
+      await branchWriter.addFeeder(file);
+    }
+    await busWriter.finish();
+    await branchWriter.finish();
+    await buses.commit();
+    await branches.commit();
+  } finally {
+    await buses.abandon();
+    await branches.abandon();
+  }
+  const ranking = rankNeeds(needs, config.ranking);
+  await writeFileAtomic(join(outDir, "ranking.csv"), rankingCsv(ranking, provenance));
+  await writeFileAtomic(
+    join(outDir, "fleet.json"),
+    fleetJson(rows, ranking, config.ranking, provenance),
+  );
+  return {
+    ranking,
+    files: ["ranking.csv", "fleet.json", "buses.parquet", "branches.parquet"],
+  };
+}
+
+/** The fleet table's row of a feeder, from its file. */
+export function fleetRow(file: FeederFile, classOrder: readonly NeedClass[]): FleetFeederRow {
+  const converged = file.cases.filter((c) => c.converged);
+  const pick = (xs: number[], f: (...v: number[]) => number) => xs.length === 0 ? null : f(...xs);
+  const needs = file.needs ?? [];
+  let worstClass: NeedClass | null = null;
+  for (const c of classOrder) {
+    if (needs.some((n) => n.needClass === c)) {
+      worstClass = c;
+      break;
+    }
+  }
+  return {
+    feederId: file.feederId,
+    status: file.status,
+    vnKv: file.summary.vnKv,
+    buses: file.summary.buses,
+    customers: file.summary.customers,
+    generationKw: file.summary.generationKw,
+    vMinPu: pick(converged.map((c) => c.vMinPu), Math.min),
+    vMaxPu: pick(converged.map((c) => c.vMaxPu), Math.max),
+    maxLoadingPercent: pick(converged.map((c) => c.maxLoadingPercent), Math.max),
+    headroomMw: file.headroom?.headroomMw ?? null,
+    needs: needs.length,
+    worstClass,
+  };
+}
+
+function cmp(a: string, b: string): number {
+  return a < b ? -1 : a > b ? 1 : 0;
+}
