@@ -2,6 +2,7 @@
 import type { Paint } from "./paint.ts";
 import type { FeederChange, StudyRun } from "./run_study.ts";
 import type { Finding } from "../checks/finding.ts";
+import type { Need, RankedNeed } from "../rank/need.ts";
 import { CAUTION } from "../report/run_files.ts";
 
 export function formatStudySummary(run: StudyRun, outDir: string, paint: Paint): string {
@@ -38,10 +39,48 @@ export function formatStudySummary(run: StudyRun, outDir: string, paint: Paint):
   const errors = run.diagnostics.filter((d) => d.severity === "error").length;
   const warnings = run.diagnostics.length - errors;
   out.push(`Diagnostics: ${errors} error(s), ${warnings} warning(s) (see diagnostics.csv)`);
+  out.push(...formatRankingTop(run.ranking, run.record.config?.costs.currency ?? "", paint));
   out.push(`Run folder: ${outDir}`);
   out.push(paint.dim(CAUTION));
   return out.join("\n");
 }
+
+/** How many needs of the ranking the summary shows. */
+export const RANKING_TOP = 10;
+
+/** The top of the ranked upgrade list: rank, feeder, class, need, remedy and its cost. */
+export function formatRankingTop(
+  ranking: readonly RankedNeed[],
+  currency: string,
+  paint: Paint,
+): string[] {
+  if (ranking.length === 0) return ["Ranked upgrade list: no feeder needs work."];
+  const out = [
+    paint.bold(
+      `Ranked upgrade list (${ranking.length} need(s) on ${
+        new Set(ranking.map((n) => n.feederId)).size
+      } feeder(s); ranking.csv, report.html):`,
+    ),
+  ];
+  for (const n of ranking.slice(0, RANKING_TOP)) {
+    const remedy = n.remedy === null
+      ? "no catalogue remedy: engineering study needed"
+      : `${n.remedy.kind.replaceAll("_", " ")}, ${n.remedy.cost} ${currency}` +
+        (n.remedy.capacityUnlockedMw !== null && n.remedy.capacityUnlockedMw > 0
+          ? `, unlocks ${n.remedy.capacityUnlockedMw.toFixed(2)} MW`
+          : "");
+    out.push(
+      `  ${String(n.rank).padStart(3)}. ${n.feederId.padEnd(10)} ${n.needClass.padEnd(9)} ${
+        n.kind.replaceAll("_", " ").padEnd(20)
+      } ${remedy}`,
+    );
+  }
+  if (ranking.length > RANKING_TOP) out.push(`  … ${ranking.length - RANKING_TOP} more`);
+  return out;
+}
+
+const needKey = (n: Need) =>
+  `${n.kind}: ${n.remedy === null ? "no remedy" : `${n.remedy.kind} ${n.remedy.cost}`}`;
 
 const findingKey = (f: Finding) => `${f.caseId} ${f.code} at ${f.where.id}`;
 
@@ -67,6 +106,13 @@ export function formatChange(c: FeederChange): string[] {
   const before = new Set(b.findings.map(findingKey)), after = new Set(a.findings.map(findingKey));
   for (const k of [...after].filter((k) => !before.has(k)).sort()) out.push(`  + ${k}`);
   for (const k of [...before].filter((k) => !after.has(k)).sort()) out.push(`  − ${k}`);
+  const needsBefore = new Set(b.needs.map(needKey)), needsAfter = new Set(a.needs.map(needKey));
+  for (const k of [...needsAfter].filter((k) => !needsBefore.has(k)).sort()) {
+    out.push(`  + need ${k}`);
+  }
+  for (const k of [...needsBefore].filter((k) => !needsAfter.has(k)).sort()) {
+    out.push(`  − need ${k}`);
+  }
   if (out.length === 1) out.push("  no change");
   return out;
 }
