@@ -550,3 +550,31 @@ Deno.test("parsePipelineConfig() never throws and locates every problem inside t
     { numRuns: 500, seed: 11 },
   );
 });
+
+Deno.test("parsePipelineConfig() reads the cost table, remedy and ranking sections with located errors", () => {
+  const ok = parse(
+    `{ "ranking": { "method": "weighted", "classWeights": { "safety": 5 } },
+       "costs": { "currency": "units", "voltageRegulator": 80 } }`,
+  );
+  deepStrictEqual(ok.diagnostics, []);
+  equal(ok.value!.ranking.method, "weighted");
+  equal(ok.value!.ranking.classWeights.safety, 5);
+  equal(ok.value!.ranking.classWeights.statutory, 100); // the default of the others stays
+  equal(ok.value!.costs.voltageRegulator, 80);
+  deepStrictEqual(ok.value!.costs.conductors, DEFAULT_PIPELINE.costs.conductors);
+
+  const bad = parse(`{
+  "ranking": { "classOrder": ["safety", "statutory", "planning"] },
+  "costs": { "conductors": [{ "conductorClass": "X", "construction": "cable", "level": "mv",
+    "r1OhmPerKm": 0.1, "x1OhmPerKm": 0.1, "ampacityA": -5, "costPerKm": 1 }] },
+  "remedies": { "transformerSizesMva": [1, 0.63] }
+}`);
+  equal(bad.value, undefined);
+  // At the list that lacks a class, the bad ampacity, and the size out of order.
+  deepStrictEqual(bad.diagnostics.map(where), [
+    { code: "config.invalid", severity: "error", line: 2, column: 30 },
+    { code: "config.invalid", severity: "error", line: 4, column: 56 },
+    { code: "config.invalid", severity: "error", line: 5, column: 44 },
+  ]);
+  assert(bad.diagnostics[0]!.message.includes(`"hosting"`));
+});
