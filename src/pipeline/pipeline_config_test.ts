@@ -570,11 +570,11 @@ Deno.test("parsePipelineConfig() reads the cost table, remedy and ranking sectio
   "remedies": { "transformerSizesMva": [1, 0.63] }
 }`);
   equal(bad.value, undefined);
-  // At the list that lacks a class, the bad ampacity, and the size out of order.
+  // The bad ampacity, the size out of order, and the list that lacks a class (schema order).
   deepStrictEqual(bad.diagnostics.map(where), [
-    { code: "config.invalid", severity: "error", line: 2, column: 30 },
     { code: "config.invalid", severity: "error", line: 4, column: 56 },
     { code: "config.invalid", severity: "error", line: 5, column: 44 },
+    { code: "config.invalid", severity: "error", line: 2, column: 30 },
   ]);
-  assert(bad.diagnostics[0]!.message.includes(`"hosting"`));
+  assert(bad.diagnostics[2]!.message.includes(`"hosting"`));
 });
