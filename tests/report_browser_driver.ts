@@ -7,7 +7,9 @@
  * A process of its own because playwright-core needs what the test suite does not grant:
  * its bundled `debug` module lists every environment variable when imported (so
  * --allow-env without a list), and it asks for the home directory and the OS release.
- * Chromium gets TMPDIR as its home, so its profile and caches stay under reports/.
+ * Chromium gets TMPDIR as its home, so its profile and caches stay under reports/; the run
+ * permission is unscoped so that playwright can kill Chromium's process group if a launch
+ * goes wrong (the test task has the same).
  */
 import { chromium } from "playwright-core";
 
@@ -68,9 +70,16 @@ export async function browseReport(
 ): Promise<BrowserObservations> {
   const url = new URL(`file://${Deno.realPathSync(htmlPath)}`).href;
   const tmp = Deno.env.get("TMPDIR");
-  const env = tmp === undefined
-    ? undefined
-    : { ...Deno.env.toObject(), HOME: tmp, XDG_CONFIG_HOME: tmp, XDG_CACHE_HOME: tmp };
+  // Chromium puts a Unix socket in its temporary folder, and a socket path is limited to
+  // 107 bytes: under a deep checkout, its temporary folder goes back to /tmp.
+  const chromiumTmp = tmp !== undefined && tmp.length <= 60 ? tmp : "/tmp";
+  const env = tmp === undefined ? undefined : {
+    ...Deno.env.toObject(),
+    TMPDIR: chromiumTmp,
+    HOME: tmp,
+    XDG_CONFIG_HOME: tmp,
+    XDG_CACHE_HOME: tmp,
+  };
   const browser = await chromium.launch({
     executablePath: "/usr/bin/chromium",
     args: ARGS,

@@ -41,7 +41,9 @@ const DRIVER_PERMISSIONS = [
   "--allow-write=reports",
   "--allow-env",
   "--allow-sys=homedir,osRelease",
-  `--allow-run=${CHROMIUM}`,
+  // Unscoped like the test task's: playwright kills Chromium's process group on a failed
+  // launch, which Deno allows only with run access to everything.
+  "--allow-run",
 ];
 
 async function browse(htmlPath: string): Promise<BrowserObservations> {
