@@ -22,7 +22,7 @@ export const NO_RESULT_COLOUR = "#ffffff";
 const CLASSES = [
   { upTo: -1, colour: "#23426e", label: "Below the band" },
   { upTo: -0.5, colour: "#86a6cf", label: "Low: more than half the allowed drop" },
-  { upTo: 0.5, colour: "#d8d4c8", label: "Near nominal: within half the allowed deviation" },
+  { upTo: 0.5, colour: "#a3b89c", label: "Near nominal: within half the allowed deviation" },
   { upTo: 1, colour: "#e2a66f", label: "High: more than half the allowed rise" },
   { upTo: Infinity, colour: "#9c3a1e", label: "Above the band" },
 ] as const;

@@ -2,9 +2,10 @@
 import type { NeedEvidence } from "../rank/need.ts";
 import { formatNumber } from "./_number_text.ts";
 
-/** A value in its unit: pu to 3 decimals, small numbers to 2, large ones whole. */
+/** A value in its unit: pu to 3 decimals, % to 2 (1 from 100 up), others to 2 (0 from 100 up). */
 export function formatValue(v: number, unit: string): string {
-  const digits = unit === "pu" ? 3 : Math.abs(v) >= 100 ? 0 : 2;
+  const large = Math.abs(v) >= 100;
+  const digits = unit === "pu" ? 3 : unit === "%" ? (large ? 1 : 2) : large ? 0 : 2;
   return `${formatNumber(v, digits)} ${unit}`;
 }
 

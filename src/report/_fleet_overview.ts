@@ -61,7 +61,7 @@ export function renderProvenance(ctx: ReportContext): Html {
     item("Findings", tally(r.counts.findings)),
     item("Diagnostics", tally(r.counts.diagnostics)),
     r.shard === undefined ? "" : item("Shard", `${r.shard.index} of ${r.shard.count}`),
-    item("Costs", `${ctx.costs.currency}, indicative, from ${ctx.costs.source}`),
+    item("Costs", `indicative, in ${ctx.costs.currency}; source: ${ctx.costs.source}`),
   ]}</dl>`;
 }
 

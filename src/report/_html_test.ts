@@ -40,5 +40,9 @@ Deno.test("formatNumber() rounds, groups thousands and never depends on the loca
   ];
   for (const [v, d, s] of cases) strictEqual(formatNumber(v, d), s, `${v}`);
   strictEqual(formatMoney(97000, "NVC"), "NVC 97,000");
+  strictEqual(formatMoney(4.4, "k-NVK"), "k-NVK 4.4");
+  strictEqual(formatMoney(322, "k-NVK"), "k-NVK 322");
+  strictEqual(formatMoney(0.125, "k-NVK"), "k-NVK 0.13");
+  strictEqual(formatMoney(999.999, "k-NVK"), "k-NVK 1,000");
   strictEqual(formatMoney(null, "NVC"), "–");
 });

@@ -15,8 +15,12 @@ export function formatNumber(v: number | null | undefined, digits = 0): string {
   return frac === undefined ? grouped : `${grouped}.${frac}`;
 }
 
-/** An amount of money, whole units: "NVC 12,400". */
+/**
+ * An amount of money: whole units from 1,000 up, below that at most two decimals with
+ * trailing zeros dropped (costs in thousands are small numbers): "NVC 12,400", "k-NVK 4.4".
+ */
 export function formatMoney(v: number | null | undefined, currency: string): string {
-  const n = formatNumber(v, 0);
-  return n === UNKNOWN ? n : `${currency} ${n}`;
+  if (v === null || v === undefined || !Number.isFinite(v)) return UNKNOWN;
+  const n = Math.abs(v) >= 1000 ? formatNumber(v, 0) : formatNumber(v, 2).replace(/\.?0+$/, "");
+  return `${currency} ${n}`;
 }

@@ -18,6 +18,8 @@ export type CurveStyle = "phase" | "earth" | "melt" | "clear";
 
 export interface TccSeries {
   readonly name: string;
+  /** Curves sharing a key share a colour: a fuse's melt and clear curves. */
+  readonly colourKey: string;
   readonly style: CurveStyle;
   /**
    * Points in ascending current; relay times raised to TCC_MIN_S, times above
@@ -52,6 +54,7 @@ export function timeCurrentSeries(devices: readonly DeviceCurves[]): TccData | n
   const notes: string[] = [];
   const groups: {
     name: string;
+    colourKey: string;
     style: CurveStyle;
     floor: number;
     /** Relays: the lowest pickup, drawn as a rise to the top of the plot. */
@@ -59,6 +62,10 @@ export function timeCurrentSeries(devices: readonly DeviceCurves[]): TccData | n
     time: (iA: number) => number;
   }[] = [];
   const knees: number[] = [];
+  const fuses = new Map<
+    string,
+    { curve: NonNullable<DeviceCurves["fuseCurve"]>; deviceIds: string[] }
+  >();
   let lo = Infinity, hi = 0;
   for (const d of devices) {
     for (const relay of d.relays) {
@@ -78,10 +85,12 @@ export function timeCurrentSeries(devices: readonly DeviceCurves[]): TccData | n
           if (stages.length === 0) continue;
           const directions = [...new Set(stages.map((s) => s.direction))]
             .filter((x) => x !== "non_directional");
+          const name = [d.id, relay.id, element, set, ...directions]
+            .filter((x) => x !== null)
+            .join(" · ");
           groups.push({
-            name: [d.id, relay.id, element, set, ...directions].filter((x) => x !== null).join(
-              " · ",
-            ),
+            name,
+            colourKey: name,
             style: element,
             floor: TCC_MIN_S,
             pickupA: Math.min(...stages.map((s) => s.pickupA)),
@@ -97,21 +106,33 @@ export function timeCurrentSeries(devices: readonly DeviceCurves[]): TccData | n
     }
     if (d.fuseCurve !== null) {
       const fc = d.fuseCurve;
-      for (const [style, pts] of [["melt", fc.melt], ["clear", fc.clear]] as const) {
-        if (pts.length === 0) continue;
-        groups.push({
-          name: `${d.id} · ${fc.id} · ${style}`,
-          style,
-          floor: 0,
-          pickupA: null,
-          time: (iA) => fuseTimeS(pts, iA),
-        });
-        for (const p of pts) knees.push(p.x);
-        lo = Math.min(lo, pts[0]!.x);
-        hi = Math.max(hi, 2 * pts[pts.length - 1]!.x);
-      }
+      const key = JSON.stringify([fc.id, fc.melt, fc.clear]);
+      const same = fuses.get(key);
+      if (same) same.deviceIds.push(d.id);
+      else fuses.set(key, { curve: fc, deviceIds: [d.id] });
     }
-    if (d.breakingCurrentA !== null && groups.length > 0) hi = Math.max(hi, d.breakingCurrentA);
+    const drawn = d.relays.some((r) => r.stages.length > 0) || d.fuseCurve !== null;
+    if (d.breakingCurrentA !== null && drawn) hi = Math.max(hi, d.breakingCurrentA);
+  }
+  // Fuse links of the same curve are drawn once, naming their devices.
+  for (const { curve: fc, deviceIds } of fuses.values()) {
+    const who = deviceIds.length <= 3
+      ? deviceIds.join(", ")
+      : `${deviceIds.slice(0, 2).join(", ")} and ${deviceIds.length - 2} more`;
+    for (const [style, pts] of [["melt", fc.melt], ["clear", fc.clear]] as const) {
+      if (pts.length === 0) continue;
+      groups.push({
+        name: `${who} · ${fc.id} · ${style}`,
+        colourKey: `${who} · ${fc.id}`,
+        style,
+        floor: 0,
+        pickupA: null,
+        time: (iA) => fuseTimeS(pts, iA),
+      });
+      for (const p of pts) knees.push(p.x);
+      lo = Math.min(lo, pts[0]!.x);
+      hi = Math.max(hi, 2 * pts[pts.length - 1]!.x);
+    }
   }
   if (groups.length === 0) {
     return notes.length > 0 ? { series: [], iMinA: 1, iMaxA: 10, notes } : null;
@@ -125,6 +146,7 @@ export function timeCurrentSeries(devices: readonly DeviceCurves[]): TccData | n
   ].sort((a, b) => a - b);
   const series = groups.map((g) => ({
     name: g.name,
+    colourKey: g.colourKey,
     style: g.style,
     points: [
       ...(g.pickupA === null ? [] : [{ iA: g.pickupA, tS: 10 * TCC_MAX_S }]),
@@ -147,9 +169,9 @@ export async function timeCurrentChart(
   const data = timeCurrentSeries(devices);
   if (data === null) return { svg: null, notes: [] };
   if (data.series.length === 0) return { svg: null, notes: data.notes };
-  const names = data.series.map((s) => s.name);
-  const values = data.series.flatMap((s, order) =>
-    s.points.map((p) => ({ series: s.name, style: s.style, order, iA: p.iA, tS: p.tS }))
+  const keys = [...new Set(data.series.map((s) => s.colourKey))];
+  const values = data.series.flatMap((s) =>
+    s.points.map((p) => ({ series: s.name, key: s.colourKey, style: s.style, iA: p.iA, tS: p.tS }))
   );
   const decades = (lo: number, hi: number, steps: readonly number[]) => {
     const out: number[] = [];
@@ -175,37 +197,25 @@ export async function timeCurrentChart(
     axis: { format: "~g", grid: false, values: decades(TCC_MIN_S, TCC_MAX_S, [1, 2, 5]) },
   };
   const isDecade = (v: number) => Math.abs(Math.log10(v) - Math.round(Math.log10(v))) < 1e-9;
-  /** Log-paper grid in one layer: light rules at 2–9 of each decade, darker at decades. */
-  const gridLines = [
-    ...xMinor.map((v) => ({ iA: v, iA2: v, tS: TCC_MIN_S, tS2: TCC_MAX_S, decade: isDecade(v) })),
-    ...yMinor.map((v) => ({
-      iA: data.iMinA,
-      iA2: data.iMaxA,
-      tS: v,
-      tS2: v,
-      decade: isDecade(v),
-    })),
-  ].sort((a, b) => Number(a.decade) - Number(b.decade));
+  /** Log-paper grid: light rules at 2–9 of each decade, darker ones at the decades. */
+  const gridLayer = (decade: boolean) => ({
+    data: {
+      values: [
+        ...xMinor.filter((v) => isDecade(v) === decade)
+          .map((v) => ({ iA: v, iA2: v, tS: TCC_MIN_S, tS2: TCC_MAX_S })),
+        ...yMinor.filter((v) => isDecade(v) === decade)
+          .map((v) => ({ iA: data.iMinA, iA2: data.iMaxA, tS: v, tS2: v })),
+      ],
+    },
+    mark: { type: "rule" as const, strokeWidth: 1, color: decade ? "#c3c8ce" : "#eceef1" },
+    encoding: { x, x2: { field: "iA2" }, y, y2: { field: "tS2" } },
+  });
   const svg = await renderVegaLiteSvg({
     width: 560,
     height: 380,
     layer: [
-      {
-        data: { values: gridLines },
-        mark: { type: "rule", strokeWidth: 1 },
-        encoding: {
-          x,
-          x2: { field: "iA2" },
-          y,
-          y2: { field: "tS2" },
-          color: {
-            field: "decade",
-            type: "nominal",
-            scale: { domain: [false, true], range: ["#eceef1", "#c3c8ce"] },
-            legend: null,
-          },
-        },
-      },
+      gridLayer(false),
+      gridLayer(true),
       {
         data: { values },
         mark: { type: "line", strokeWidth: 1.7, clip: true, interpolate: "linear" },
@@ -213,18 +223,19 @@ export async function timeCurrentChart(
           x,
           y,
           order: { field: "iA", type: "quantitative" },
+          detail: { field: "series", type: "nominal" },
           color: {
-            field: "series",
+            field: "key",
             type: "nominal",
             title: "Curves",
             scale: {
-              domain: names,
-              range: names.map((_, k) => SERIES_COLOURS[k % SERIES_COLOURS.length]!),
+              domain: keys,
+              range: keys.map((_, k) => SERIES_COLOURS[k % SERIES_COLOURS.length]!),
             },
             legend: {
               orient: "right",
               direction: "vertical",
-              labelLimit: 330,
+              labelLimit: 420,
               symbolType: "stroke",
               symbolStrokeWidth: 2.5,
             },

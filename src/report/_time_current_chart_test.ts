@@ -3,6 +3,7 @@ import { stageOperatingTimeS } from "../solve/overcurrent_time.ts";
 import { TCC_MIN_S, timeCurrentChart, timeCurrentSeries } from "./_time_current_chart.ts";
 import { reportFixture } from "../../tests/fixtures/report_fixtures.ts";
 import type { DeviceCurves } from "./feeder_file.ts";
+import { SERIES_COLOURS } from "./_chart_palette.ts";
 
 const devices = () => reportFixture().files[0]!.devices;
 
@@ -19,6 +20,19 @@ Deno.test("timeCurrentSeries() draws one curve per relay element and curve set a
   // Decades around every pickup (60 A) and the largest breaking current (16 kA).
   strictEqual(d.iMinA, 10);
   strictEqual(d.iMaxA, 100_000);
+});
+
+Deno.test("timeCurrentSeries() draws a fuse curve shared by several devices once, naming them", () => {
+  const fuse = devices()[2]!;
+  const many = ["A", "B", "C", "D"].map((id) => ({ ...fuse, id }));
+  assertEquals(timeCurrentSeries(many.slice(0, 3))!.series.map((s) => s.name), [
+    "A, B, C · EXP-40 · melt",
+    "A, B, C · EXP-40 · clear",
+  ]);
+  assertEquals(timeCurrentSeries(many)!.series.map((s) => s.colourKey), [
+    "A, B and 2 more · EXP-40",
+    "A, B and 2 more · EXP-40",
+  ]);
 });
 
 Deno.test("timeCurrentSeries() takes the fastest stage of a relay at each current", () => {
@@ -55,9 +69,15 @@ Deno.test("timeCurrentSeries() names stages it cannot draw and returns null with
   assertEquals(d.notes, ['Stage 1 of relay "R-X" lacks a setting and is not drawn.']);
 });
 
-Deno.test("timeCurrentChart() renders log–log axes with decade labels", async () => {
+Deno.test("timeCurrentChart() renders log–log axes with decade labels and a colour per curve", async () => {
   const { svg } = await timeCurrentChart(devices(), "t");
   assert(svg !== null);
+  // Four relay curves and one fuse (melt and clear share its colour), each stroked in its
+  // own palette colour and named in the legend.
+  SERIES_COLOURS.slice(0, 5).forEach((c) =>
+    assert(svg.includes(`stroke="${c}"`), `no curve drawn in ${c}`)
+  );
+  assert(svg.includes(">SKR-F1-FU5 · EXP-40</text>"));
   for (const label of ["0.01", "1000", "100k", "Current (A)", "Time (s)"]) {
     assert(svg.includes(`>${label}</text>`), label);
   }
