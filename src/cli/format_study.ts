@@ -1,4 +1,5 @@
 /** The short summary of a study run printed on stdout. */
+import { join } from "node:path";
 import type { Paint } from "./paint.ts";
 import type { FeederChange, StudyRun } from "./run_study.ts";
 import type { Finding } from "../checks/finding.ts";
@@ -41,6 +42,7 @@ export function formatStudySummary(run: StudyRun, outDir: string, paint: Paint):
   out.push(`Diagnostics: ${errors} error(s), ${warnings} warning(s) (see diagnostics.csv)`);
   out.push(...formatRankingTop(run.ranking, run.record.config?.costs.currency ?? "", paint));
   out.push(`Run folder: ${outDir}`);
+  out.push(`Report: ${join(outDir, "report.html")}`);
   out.push(paint.dim(CAUTION));
   return out.join("\n");
 }

@@ -31,6 +31,7 @@ Deno.test("runStudy() writes the run folder, identical between runs but for run.
       "findings.csv",
       "fleet.json",
       "ranking.csv",
+      "report.html",
       "run.json",
     ]);
     for (const k of Object.keys(ta)) if (k !== "run.json") assertEquals(ta[k], tb[k], k);
@@ -70,8 +71,8 @@ Deno.test("runStudy() writes the same bytes with 1, 2 and 4 workers as in one th
       delete t["run.json"];
       trees.push(t);
     }
-    // 13 feeders, findings, diagnostics, ranking, fleet, buses and branches.
-    assertEquals(Object.keys(trees[0]!).length, 19);
+    // 13 feeders, findings, diagnostics, ranking, fleet, buses, branches and the report.
+    assertEquals(Object.keys(trees[0]!).length, 20);
     for (const t of trees.slice(1)) assertEquals(t, trees[0]);
   } finally {
     await Deno.remove(TMP, { recursive: true }).catch(() => {});

@@ -8,7 +8,8 @@
 import { join } from "node:path";
 import type { PipelineConfig } from "../pipeline/pipeline_config.ts";
 import type { FeederFile } from "../report/feeder_file.ts";
-import type { FleetFeederRow } from "../report/report_context.ts";
+import type { FleetFeederRow, ReportContext } from "../report/report_context.ts";
+import { renderFeederPage, renderReportHead, renderReportTail } from "../report/report_html.ts";
 import type { RunProvenance } from "../report/run_files.ts";
 import type { NeedClass, RankedNeed } from "../rank/need.ts";
 import { rankNeeds } from "../rank/rank_needs.ts";
@@ -80,10 +81,53 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
     join(outDir, "fleet.json"),
     fleetJson(rows, ranking, config.ranking, provenance),
   );
+  await writeReportHtml(outDir, files, rows, ranking, record, config);
   return {
     ranking,
-    files: ["ranking.csv", "fleet.json", "buses.parquet", "branches.parquet"],
+    files: ["ranking.csv", "fleet.json", "buses.parquet", "branches.parquet", "report.html"],
   };
+}
+
+/**
+ * report.html: the overview, then a section per feeder — feeders with needs first, in the
+ * order of their best-ranked need, then the others by id — up to output.reportFeederPages.
+ */
+async function writeReportHtml(
+  outDir: string,
+  files: readonly { readonly feederId: string; readonly path: string }[],
+  rows: readonly FleetFeederRow[],
+  ranking: readonly RankedNeed[],
+  record: RunProvenance,
+  config: PipelineConfig,
+): Promise<void> {
+  const ctx: ReportContext = {
+    run: record,
+    ranking,
+    feeders: rows,
+    limits: { voltageBand: config.limits.voltageBand, lvMaxKv: config.limits.lvMaxKv },
+    costs: { currency: config.costs.currency, source: config.costs.source },
+  };
+  const firstRank = new Map<string, number>();
+  for (const n of ranking) if (!firstRank.has(n.feederId)) firstRank.set(n.feederId, n.rank);
+  const pages = [...files]
+    .sort((a, b) =>
+      (firstRank.get(a.feederId) ?? Infinity) - (firstRank.get(b.feederId) ?? Infinity) ||
+      cmp(a.feederId, b.feederId)
+    )
+    .slice(0, config.output.reportFeederPages);
+  const out = await openAtomicFile(join(outDir, "report.html"));
+  const encoder = new TextEncoder();
+  try {
+    await out.write(encoder.encode(await renderReportHead(ctx)));
+    for (const f of pages) {
+      const file = JSON.parse(await Deno.readTextFile(f.path)) as FeederFile;
+      await out.write(encoder.encode(await renderFeederPage(file, ctx)));
+    }
+    await out.write(encoder.encode(renderReportTail(ctx)));
+    await out.commit();
+  } finally {
+    await out.abandon();
+  }
 }
 
 /** The fleet table's row of a feeder, from its file. */

@@ -62,6 +62,8 @@ export type PipelineChecks = CheckSelection;
 export interface PipelineOutput {
   readonly busResults: boolean;
   readonly branchResults: boolean;
+  /** report.html holds a section for at most this many feeders (those with needs first). */
+  readonly reportFeederPages: number;
 }
 
 /** A parsed pipeline config: every field filled, defaults included. */
@@ -135,7 +137,7 @@ export const DEFAULT_PIPELINE: PipelineConfig = {
     reversePower: true,
     losses: true,
   },
-  output: { busResults: true, branchResults: true },
+  output: { busResults: true, branchResults: true, reportFeederPages: 200 },
   costs: DEFAULT_COST_TABLE,
   remedies: DEFAULT_REMEDY_OPTIONS,
   ranking: DEFAULT_RANKING_OPTIONS,
@@ -267,6 +269,7 @@ export const pipelineConfigSchema: z.ZodType<PipelineConfig, unknown> = z.strict
   output: z.strictObject({
     busResults: flag(O.busResults),
     branchResults: flag(O.branchResults),
+    reportFeederPages: z.number().int().min(0).max(100_000).default(O.reportFeederPages),
   }).prefault({}),
   costs: costTableSchema.prefault({}),
   remedies: remedyOptionsSchema.prefault({}),

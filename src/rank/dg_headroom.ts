@@ -42,10 +42,11 @@ export function computeDgHeadroom(
   if (!base.converged) return null;
   const solveAt = (factor: number) =>
     solveLoadFlow(withGenerationScaled(form, factor), lfCase!, solver, prepared).value;
-  const atZero = solveAt(0);
-  const skip = exclusionsOf(form, atZero, base, limits, checks);
+  // Factor 0 is the case without generation: what is past a limit there is not the
+  // generation's doing.
+  const skip = exclusionsOf(form, base, base, limits, checks);
   let evaluations = 0;
-  const marginOf = (r: typeof atZero) => {
+  const marginOf = (r: typeof base) => {
     if (!r.converged) {
       return {
         margin: Infinity,
@@ -72,7 +73,7 @@ export function computeDgHeadroom(
     headroomMw: round((factor - 1) * connectedMw),
     binding,
   });
-  let lo = 0, fLo = marginOf(atZero).margin;
+  let lo = 0, fLo = marginOf(base).margin;
   let hi = 1, atHi = one;
   if (fLo > 0) return result(0, { code: one.code, where: one.where }); // not even a little fits
   if (one.margin <= 0) {

@@ -8,7 +8,11 @@ import { parquetMetadata, parquetReadObjects } from "hyparquet";
 import { createBusParquetWriter, type ParquetProvenance } from "./bus_parquet.ts";
 import type { FeederFile } from "./feeder_file.ts";
 import { CAUTION } from "./run_files.ts";
-import { collectBytes, HAND_MADE_FEEDERS, studyDemoFeederFiles } from "../../tests/fixtures/feeder_file_fixtures.ts";
+import {
+  collectBytes,
+  HAND_MADE_FEEDERS,
+  studyDemoFeederFiles,
+} from "../../tests/fixtures/feeder_file_fixtures.ts";
 
 const META: ParquetProvenance = {
   tool: "gridtriage",
