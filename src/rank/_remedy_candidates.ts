@@ -84,13 +84,8 @@ export function* candidatesFor(
 }
 
 function item(what: string, quantity: number, unit: string, unitCost: number): RemedyItem {
-  return {
-    what,
-    quantity: round(quantity, 3),
-    unit,
-    unitCost,
-    cost: round(quantity * unitCost, 2),
-  };
+  const q = round(quantity, 3); // the cost follows the quantity as shown
+  return { what, quantity: q, unit, unitCost, cost: round(q * unitCost, 2) };
 }
 
 /** Generators whose reactive mode can be changed to absorb: not induction, not already absorbing. */
