@@ -1,6 +1,7 @@
 /**
- * Differences between two runs, feeder by feeder: status, key figures per case, and
- * findings added or removed. Works on the parsed feeder files of the two run folders.
+ * Differences between two runs, feeder by feeder: status, key figures per case, findings
+ * added or removed, and needs added or removed (a need whose remedy or cost changed counts
+ * as removed and added). Works on the parsed feeder files of the two run folders.
  */
 
 /** What the diff reads from a feeders/<id>.json file. */
@@ -21,6 +22,11 @@ export interface FeederResultFile {
     readonly where: { readonly id: string };
     readonly severity: string;
   }[];
+  /** Absent in files written before the ranking stage. */
+  readonly needs?: readonly {
+    readonly kind: string;
+    readonly remedy: { readonly kind: string; readonly cost: number } | null;
+  }[];
 }
 
 export interface FigureChange {
@@ -38,6 +44,8 @@ export interface FeederDiff {
   readonly figures: readonly FigureChange[];
   readonly findingsAdded: readonly string[];
   readonly findingsRemoved: readonly string[];
+  readonly needsAdded: readonly string[];
+  readonly needsRemoved: readonly string[];
 }
 
 const FIGURES = [
@@ -53,6 +61,14 @@ const SAME = 1e-9;
 
 function findingKeys(f: FeederResultFile): Set<string> {
   return new Set(f.findings.map((x) => `${x.caseId} ${x.severity} ${x.code} at ${x.where.id}`));
+}
+
+function needKeys(f: FeederResultFile): Set<string> {
+  return new Set(
+    (f.needs ?? []).map((n) =>
+      `${n.kind}: ${n.remedy === null ? "no remedy" : `${n.remedy.kind}, cost ${n.remedy.cost}`}`
+    ),
+  );
 }
 
 export function diffRuns(
@@ -73,6 +89,8 @@ export function diffRuns(
         figures: [],
         findingsAdded: a === undefined ? [...findingKeys(f)].sort() : [],
         findingsRemoved: b === undefined ? [...findingKeys(f)].sort() : [],
+        needsAdded: a === undefined ? [...needKeys(f)].sort() : [],
+        needsRemoved: b === undefined ? [...needKeys(f)].sort() : [],
       });
       continue;
     }
@@ -92,8 +110,12 @@ export function diffRuns(
     const ka = findingKeys(a), kb = findingKeys(b);
     const added = [...kb].filter((k) => !ka.has(k)).sort();
     const removed = [...ka].filter((k) => !kb.has(k)).sort();
+    const na = needKeys(a), nb = needKeys(b);
+    const needsAdded = [...nb].filter((k) => !na.has(k)).sort();
+    const needsRemoved = [...na].filter((k) => !nb.has(k)).sort();
     if (
-      a.status === b.status && figures.length === 0 && added.length === 0 && removed.length === 0
+      a.status === b.status && figures.length === 0 && added.length === 0 &&
+      removed.length === 0 && needsAdded.length === 0 && needsRemoved.length === 0
     ) continue;
     out.push({
       feederId: id,
@@ -103,6 +125,8 @@ export function diffRuns(
       figures,
       findingsAdded: added,
       findingsRemoved: removed,
+      needsAdded,
+      needsRemoved,
     });
   }
   return out;
@@ -125,6 +149,8 @@ export function formatDiff(diffs: readonly FeederDiff[]): string {
     }
     for (const k of d.findingsAdded) out.push(`  + ${k}`);
     for (const k of d.findingsRemoved) out.push(`  − ${k}`);
+    for (const k of d.needsAdded) out.push(`  + need ${k}`);
+    for (const k of d.needsRemoved) out.push(`  − need ${k}`);
   }
   return out.join("\n");
 }

@@ -66,3 +66,24 @@ Deno.test("diffRuns() reports a change of status alone", () => {
   );
   assertEquals(d.map((x) => [x.statusBefore, x.statusAfter]), [["studied", "failed"]]);
 });
+
+Deno.test("diffRuns() lists needs whose remedy changed as removed and added", () => {
+  const need = (cost: number) => ({ kind: "line_overload", remedy: { kind: "reconductor", cost } });
+  const a = new Map([["F1", { ...feeder("F1", 1.02), needs: [need(84)] }]]);
+  const b = new Map([["F1", { ...feeder("F1", 1.02), needs: [need(322)] }]]);
+  const d = diffRuns(a, b);
+  assertEquals(d[0]!.needsAdded, ["line_overload: reconductor, cost 322"]);
+  assertEquals(d[0]!.needsRemoved, ["line_overload: reconductor, cost 84"]);
+  assertEquals(formatDiff(d).split("\n").slice(2), [
+    "  + need line_overload: reconductor, cost 322",
+    "  − need line_overload: reconductor, cost 84",
+  ]);
+  // A file written before the ranking stage has no needs: not a change by itself.
+  assertEquals(
+    diffRuns(
+      new Map([["F1", feeder("F1", 1.02)]]),
+      new Map([["F1", { ...feeder("F1", 1.02), needs: [] }]]),
+    ),
+    [],
+  );
+});
