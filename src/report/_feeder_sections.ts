@@ -156,7 +156,7 @@ function renderNeed(n: Need, currency: string): Html {
       </table>
     `;
   const tried = n.tried.length === 0 ? "" : html`
-    <p><strong>Tried and not enough:</strong></p>
+    <p><strong>Remedy kinds tried, in order (the cheapest that works is proposed):</strong></p>
     <ul>${n.tried.map((t) => html`<li>${t.kind.replaceAll("_", " ")}: ${t.outcome}</li>`)}</ul>
   `;
   return html`<article class="need need-${n.needClass}">
