@@ -25,6 +25,7 @@ import {
   feederJson,
   findingsCsv,
   runJson,
+  type RunProvenance,
   type RunRecord,
   tallyBy,
 } from "../report/run_files.ts";
@@ -323,7 +324,7 @@ export async function runStudy(
       const failed = all.filter((r) => r.status === "failed").length;
       const setAside = all.filter((r) => r.status === "set_aside").length;
       const needCounts = tallyBy(all.flatMap((r) => r.needs), (n) => n.needClass);
-      const provenance = {
+      const provenance: RunProvenance = {
         ...(options.shard === undefined ? {} : { shard: options.shard }),
         tool: "gridtriage",
         version: VERSION,
@@ -352,15 +353,7 @@ export async function runStudy(
         config,
       });
       const record: RunRecord = {
-        ...(options.shard === undefined ? {} : { shard: options.shard }),
-        tool: "gridtriage",
-        version: VERSION,
-        command: "study",
-        network: networkDir,
-        pipeline: pipelinePath,
-        pipelineName: config.name ?? null,
-        inputHash,
-        configHash,
+        ...provenance,
         startedAt,
         finishedAt: new Date().toISOString(),
         timing: {
@@ -377,9 +370,6 @@ export async function runStudy(
           ...reports.files,
           "feeders/",
         ],
-        reproduce: provenance.reproduce,
-        config,
-        counts: provenance.counts,
       };
       await writeFileAtomic(join(outAbs, "run.json"), runJson(record));
       if (store !== undefined && runId !== undefined) {
