@@ -91,7 +91,13 @@ Deno.test("runCli() study writes a run folder and exits 0 on the clean sample fl
     assert(text.includes("Studied 13 of 13 feeders"), text);
     assert(text.includes("voltage.dg_change"), "the rural feeder's finding is summarised");
     const findings = await Deno.readTextFile(`${out}/findings.csv`);
-    assert(findings.startsWith("feeder,case,severity,code,"));
+    // Provenance and the caution in `#` lines, then the header.
+    assert(findings.startsWith("# gridtriage "));
+    assert(
+      findings.split("\n").find((l) => !l.startsWith("#"))!.startsWith(
+        "feeder,case,severity,code,",
+      ),
+    );
   } finally {
     await Deno.remove(out, { recursive: true }).catch(() => {});
   }

@@ -89,8 +89,6 @@ export async function mergeRuns(shardDirs: readonly string[], outDir: string): P
   }
   findings.sort(compareFindings);
   diagnostics.sort(compareDiagnostics);
-  await writeFileAtomic(join(outDir, "findings.csv"), findingsCsv(findings));
-  await writeFileAtomic(join(outDir, "diagnostics.csv"), diagnosticsCsv(diagnostics));
   const sum = (k: "feeders" | "studied" | "failed" | "setAside") =>
     records.reduce((s, r) => s + r.counts[k], 0);
   const { shard: _shard, timing: _timing, startedAt: _s, finishedAt: _f, outputs, ...base } = first;
@@ -107,6 +105,8 @@ export async function mergeRuns(shardDirs: readonly string[], outDir: string): P
     reproduce: { ...base.reproduce, command: base.reproduce.command.replace(/ --shard \S+$/, "") },
   };
   const provenance = { ...base, ...reproduce, counts };
+  await writeFileAtomic(join(outDir, "findings.csv"), findingsCsv(findings, provenance));
+  await writeFileAtomic(join(outDir, "diagnostics.csv"), diagnosticsCsv(diagnostics, provenance));
   await writeRunReports({ outDir, feederFiles, record: provenance, config });
   const merged: RunRecord = {
     ...provenance,

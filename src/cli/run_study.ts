@@ -164,6 +164,7 @@ export async function runStudy(
       startedAt,
     });
     const t0 = performance.now();
+    const feederProvenance = { tool: "gridtriage", version: VERSION, configHash };
     // Peak resident memory of the process (workers are threads of it), sampled.
     let peakRss = Deno.memoryUsage().rss;
     const sampler = setInterval(() => {
@@ -225,7 +226,10 @@ export async function runStudy(
         feederCount += fleet.value.feeders.length;
         for (const f of fleet.value.feeders) {
           if (f.status !== "set_aside") continue;
-          await writeFileAtomic(fileOf(f.feederId), feederJson(f, undefined));
+          await writeFileAtomic(
+            fileOf(f.feederId),
+            feederJson(f, undefined, { ...feederProvenance, formHash: null }),
+          );
           keep(emptyRecord(f.feederId, "", fileOf(f.feederId), "set_aside"));
         }
 
@@ -271,7 +275,12 @@ export async function runStudy(
             );
             await writeFileAtomic(
               fileOf(id),
-              feederJson(summaries.get(id)!, undefined, outcome.reason),
+              feederJson(
+                summaries.get(id)!,
+                undefined,
+                { ...feederProvenance, formHash: hashes.get(id)! },
+                outcome.reason,
+              ),
             );
             keep({
               ...emptyRecord(id, hashes.get(id)!, fileOf(id), "failed"),
@@ -283,7 +292,10 @@ export async function runStudy(
         if (options.workers <= 0 || total === 0) {
           for (const { form } of toStudy) {
             const t = performance.now();
-            const value = packStudy(summaries.get(form.feederId)!, studyFeeder(form, config));
+            const value = packStudy(summaries.get(form.feederId)!, studyFeeder(form, config), {
+              ...feederProvenance,
+              formHash: hashes.get(form.feederId)!,
+            });
             await accept({
               id: form.feederId,
               ok: true,
@@ -297,13 +309,18 @@ export async function runStudy(
             for (const { form } of toStudy) {
               yield {
                 id: form.feederId,
-                payload: { form, summary: summaries.get(form.feederId)! },
+                payload: {
+                  form,
+                  summary: summaries.get(form.feederId)!,
+                  formHash: hashes.get(form.feederId)!,
+                },
                 transfer: listTransferables(form),
               };
             }
           };
           const init: StudyWorkerInit = {
             settings: config,
+            provenance: feederProvenance,
             ...(options.faults ? { faults: options.faults } : {}),
           };
           await runPool<StudyTask, PackedStudy>(
@@ -318,8 +335,6 @@ export async function runStudy(
       const findings = all.flatMap((r) => r.findings).sort(compareFindings);
       diagnostics.push(...all.flatMap((r) => r.diagnostics));
       diagnostics.sort(compareDiagnostics);
-      await writeFileAtomic(join(outAbs, "findings.csv"), findingsCsv(findings));
-      await writeFileAtomic(join(outAbs, "diagnostics.csv"), diagnosticsCsv(diagnostics));
       const studied = all.filter((r) => r.status === "studied").length;
       const failed = all.filter((r) => r.status === "failed").length;
       const setAside = all.filter((r) => r.status === "set_aside").length;
@@ -346,6 +361,11 @@ export async function runStudy(
           needs: needCounts,
         },
       };
+      await writeFileAtomic(join(outAbs, "findings.csv"), findingsCsv(findings, provenance));
+      await writeFileAtomic(
+        join(outAbs, "diagnostics.csv"),
+        diagnosticsCsv(diagnostics, provenance),
+      );
       const reports = await writeRunReports({
         outDir: outAbs,
         feederFiles: all.map((r) => ({ feederId: r.feederId, path: r.resultFile })),

@@ -6,7 +6,7 @@
 import type { Diagnostic } from "../model/diagnostic.ts";
 import type { Finding } from "../checks/finding.ts";
 import type { FeederSummary } from "../model/summarize_feeder.ts";
-import { feederJson } from "../report/run_files.ts";
+import { feederJson, type FeederProvenance } from "../report/run_files.ts";
 import type { FeederStudy } from "./study_feeder.ts";
 import type { DgHeadroom, Need } from "../rank/need.ts";
 
@@ -32,11 +32,15 @@ function extreme(
   return out;
 }
 
-export function packStudy(summary: FeederSummary, study: FeederStudy): PackedStudy {
+export function packStudy(
+  summary: FeederSummary,
+  study: FeederStudy,
+  provenance: FeederProvenance,
+): PackedStudy {
   const c = study.cases;
   return {
     status: study.status,
-    fileText: feederJson(summary, study),
+    fileText: feederJson(summary, study, provenance),
     findings: study.findings,
     diagnostics: study.diagnostics,
     vMinPu: extreme(c.map((x) => x.vMinPu), Math.min),

@@ -9,15 +9,20 @@ import type { FeederForm } from "../model/feeder_form.ts";
 import type { FeederSummary } from "../model/summarize_feeder.ts";
 import { studyFeeder, type StudySettings } from "./study_feeder.ts";
 import { packStudy } from "./pack_study.ts";
+import type { FeederProvenance } from "../report/run_files.ts";
 
 /** What the pool sends per feeder: its solver form and its validation summary. */
 export interface StudyTask {
   readonly form: FeederForm;
   readonly summary: FeederSummary;
+  /** Hash of the form (the cache key), for the file's provenance. */
+  readonly formHash: string;
 }
 
 export interface StudyWorkerInit {
   readonly settings: StudySettings;
+  /** Tool, version and config hash, for each feeder file's provenance. */
+  readonly provenance: Omit<FeederProvenance, "formHash">;
   readonly faults?: { readonly crash?: readonly string[]; readonly hang?: readonly string[] };
 }
 
@@ -53,7 +58,10 @@ self.onmessage = (e: MessageEvent) => {
   }
   try {
     const t0 = performance.now();
-    const value = packStudy(m.payload.summary, studyFeeder(m.payload.form, init.settings));
+    const value = packStudy(m.payload.summary, studyFeeder(m.payload.form, init.settings), {
+      ...init.provenance,
+      formHash: m.payload.formHash,
+    });
     self.postMessage({ kind: "done", id: m.id, value, ms: performance.now() - t0 });
   } catch (err) {
     self.postMessage({

@@ -8,6 +8,7 @@ import type { FeederSummary } from "../model/summarize_feeder.ts";
 import type { CaseOutcome } from "../pipeline/study_feeder.ts";
 import type { DgHeadroom, Need } from "../rank/need.ts";
 import type { CurvePoint, RelayStage } from "../model/network.ts";
+import type { FeederProvenance } from "./run_files.ts";
 
 /** A switching device with the settings needed to draw its time–current curves. */
 export interface DeviceCurves {
@@ -29,6 +30,8 @@ export interface DeviceCurves {
 
 export interface FeederFile {
   readonly feederId: string;
+  /** Absent in files written before version 0.2.0. */
+  readonly provenance?: FeederProvenance;
   readonly status: "studied" | "failed" | "valid" | "set_aside";
   readonly failure?: string;
   readonly summary: FeederSummary;

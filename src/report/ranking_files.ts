@@ -4,11 +4,10 @@
  * (every feeder's key figures, the ranking with its evidence and remedies, provenance).
  * Text only; the CLI writes the files. Deterministic: no times.
  */
-import Papa from "papaparse";
 import type { RankedNeed } from "../rank/need.ts";
 import type { RankingOptions } from "../rank/cost_table.ts";
 import type { FleetFeederRow } from "./report_context.ts";
-import { CAUTION } from "./run_files.ts";
+import { CAUTION, csv, provenanceLines } from "./run_files.ts";
 
 /** What every ranking output says about where it comes from. */
 export interface RankingProvenance {
@@ -48,15 +47,6 @@ export const RANKING_COLUMNS = [
 ] as const;
 
 export function rankingCsv(ranking: readonly RankedNeed[], p: RankingProvenance): string {
-  const comments = [
-    `# gridtriage ${p.version} ranked upgrade list`,
-    `# network ${p.network} (input sha256 ${p.inputHash})`,
-    `# pipeline ${p.pipeline}${
-      p.pipelineName ? ` "${p.pipelineName}"` : ""
-    } (config sha256 ${p.configHash})`,
-    `# costs in ${p.currency}: ${p.costSource}`,
-    `# ${CAUTION}`,
-  ].map((l) => l.replace(/[\r\n]+/g, " "));
   const rows = ranking.map((n) => [
     n.rank,
     n.feederId,
@@ -81,8 +71,8 @@ export function rankingCsv(ranking: readonly RankedNeed[], p: RankingProvenance)
     n.benefit,
     n.benefitPerCost ?? "",
   ]);
-  return comments.join("\n") + "\n" +
-    Papa.unparse({ fields: [...RANKING_COLUMNS], data: rows }, { newline: "\n" }) + "\n";
+  return provenanceLines("ranked upgrade list", p, [`costs in ${p.currency}: ${p.costSource}`]) +
+    csv(RANKING_COLUMNS, rows);
 }
 
 export function fleetJson(

@@ -9,7 +9,11 @@ import {
 import type { Finding, FindingSeverity } from "../checks/finding.ts";
 
 function rows(text: string): Record<string, string>[] {
-  return Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true }).data;
+  return Papa.parse<Record<string, string>>(text, {
+    header: true,
+    skipEmptyLines: true,
+    comments: "#",
+  }).data;
 }
 
 export function parseFindingsCsv(text: string): Finding[] {

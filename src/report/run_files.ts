@@ -12,16 +12,50 @@ import type { PipelineConfig } from "../pipeline/pipeline_config.ts";
 export const CAUTION =
   "Screening study: verify results with a licensed engineer and against local codes before acting.";
 
-function csv(
+/**
+ * CSV text with a header row. A first cell that starts with "#" is quoted, so that readers
+ * skipping the `#` provenance lines never take a row for one.
+ */
+export function csv(
   columns: readonly string[],
   rows: readonly (readonly (string | number | null)[])[],
 ): string {
-  return Papa.unparse({ fields: [...columns], data: rows.map((r) => [...r]) }, { newline: "\n" }) +
-    "\n";
+  return Papa.unparse({ fields: [...columns], data: rows.map((r) => [...r]) }, {
+    newline: "\n",
+    quotes: (value: unknown, column: number) =>
+      column === 0 && typeof value === "string" && value.startsWith("#"),
+  }) + "\n";
 }
 
-export function findingsCsv(findings: readonly Finding[]): string {
-  return csv(
+/** What a CSV file of a run says about where it comes from, as `#` lines above its header. */
+export interface CsvProvenance {
+  readonly version: string;
+  readonly network: string;
+  readonly inputHash: string;
+  readonly pipeline: string;
+  readonly pipelineName: string | null;
+  readonly configHash: string;
+}
+
+/** `#` lines: title, network and its hash, pipeline and its hash, extra lines, the caution. */
+export function provenanceLines(
+  title: string,
+  p: CsvProvenance,
+  extra: readonly string[] = [],
+): string {
+  return [
+    `# gridtriage ${p.version} ${title}`,
+    `# network ${p.network} (input sha256 ${p.inputHash})`,
+    `# pipeline ${p.pipeline}${
+      p.pipelineName ? ` "${p.pipelineName}"` : ""
+    } (config sha256 ${p.configHash})`,
+    ...extra.map((l) => `# ${l}`),
+    `# ${CAUTION}`,
+  ].map((l) => l.replace(/[\r\n]+/g, " ")).join("\n") + "\n";
+}
+
+export function findingsCsv(findings: readonly Finding[], p: CsvProvenance): string {
+  return provenanceLines("findings", p) + csv(
     [
       "feeder",
       "case",
@@ -49,8 +83,8 @@ export function findingsCsv(findings: readonly Finding[]): string {
   );
 }
 
-export function diagnosticsCsv(diagnostics: readonly Diagnostic[]): string {
-  return csv(
+export function diagnosticsCsv(diagnostics: readonly Diagnostic[], p: CsvProvenance): string {
+  return provenanceLines("diagnostics", p) + csv(
     [
       "severity",
       "code",
@@ -82,15 +116,29 @@ function roundForCsv(v: number): number {
   return Math.round(v * 1e6) / 1e6;
 }
 
+/**
+ * Where a feeder file comes from: tool and version, the config hash and the hash of the
+ * feeder's own solver form (null for a feeder set aside before it had one) — the run
+ * store's cache key, so a file taken from an earlier run says truly what made it.
+ */
+export interface FeederProvenance {
+  readonly tool: string;
+  readonly version: string;
+  readonly configHash: string;
+  readonly formHash: string | null;
+}
+
 /** The per-feeder result file: key figures, every case's buses and branches, findings. */
 export function feederJson(
   summary: FeederSummary,
   study: FeederStudy | undefined,
+  provenance: FeederProvenance,
   failure?: string,
 ): string {
   return JSON.stringify(
     {
       feederId: summary.feederId,
+      provenance,
       status: study?.status ?? (failure !== undefined ? "failed" : summary.status),
       ...(failure === undefined ? {} : { failure }),
       summary,
