@@ -9,6 +9,49 @@ import { renderVegaLiteSvg } from "./_vega_svg.ts";
 import { LIMIT_COLOUR, SERIES_COLOURS } from "./_chart_palette.ts";
 import { voltageLevelOf } from "./_voltage_band.ts";
 
+/**
+ * Above this many buses a case is drawn binned: a chart of every bus and branch of a very
+ * large feeder is unreadable and takes seconds to render.
+ */
+export const PROFILE_DETAIL_BUSES = 1500;
+/** Distance bins of a binned profile. */
+export const PROFILE_BINS = 200;
+
+type Point = { case: string; bus: string; km: number; v: number };
+type Segment = { case: string; km: number; km2: number; v: number; v2: number };
+
+/** The lowest and highest voltage per distance bin, joined bin to bin. */
+function binnedProfile(c: CaseOutcome, xMax: number, points: Point[], segments: Segment[]): void {
+  const lo = new Float64Array(PROFILE_BINS).fill(Infinity);
+  const hi = new Float64Array(PROFILE_BINS).fill(-Infinity);
+  const loBus: string[] = [], hiBus: string[] = [];
+  const width = xMax > 0 ? xMax / PROFILE_BINS : 1;
+  for (const b of c.buses!) {
+    const i = Math.min(PROFILE_BINS - 1, Math.floor(b.distanceKm / width));
+    if (b.vPu < lo[i]!) {
+      lo[i] = b.vPu;
+      loBus[i] = b.id;
+    }
+    if (b.vPu > hi[i]!) {
+      hi[i] = b.vPu;
+      hiBus[i] = b.id;
+    }
+  }
+  let prev = -1;
+  for (let i = 0; i < PROFILE_BINS; i++) {
+    if (!Number.isFinite(lo[i]!)) continue;
+    const km = (i + 0.5) * width;
+    points.push({ case: c.caseId, bus: loBus[i]!, km, v: lo[i]! });
+    if (hi[i]! > lo[i]!) points.push({ case: c.caseId, bus: hiBus[i]!, km, v: hi[i]! });
+    if (prev >= 0) {
+      const km0 = (prev + 0.5) * width;
+      segments.push({ case: c.caseId, km: km0, km2: km, v: lo[prev]!, v2: lo[i]! });
+      segments.push({ case: c.caseId, km: km0, km2: km, v: hi[prev]!, v2: hi[i]! });
+    }
+    prev = i;
+  }
+}
+
 export interface VoltageProfileChart {
   /** SVG text, or null when no case has bus results to draw. */
   readonly svg: string | null;
@@ -31,19 +74,34 @@ export async function voltageProfileChart(
   }
   if (drawn.length === 0) return { svg: null, notes };
 
-  const points: { case: string; bus: string; km: number; v: number }[] = [];
-  const segments: { case: string; km: number; km2: number; v: number; v2: number }[] = [];
+  const points: Point[] = [];
+  const segments: Segment[] = [];
   const levels = new Set<"mv" | "lv">();
   let xMax = 0, vLo = Infinity, vHi = -Infinity;
+  const detailed = drawn.every((c) => c.buses!.length <= PROFILE_DETAIL_BUSES);
+  if (!detailed) {
+    notes.push(
+      `The feeder has more than ${PROFILE_DETAIL_BUSES} buses: each case is drawn as the lowest ` +
+        `and highest bus voltage in each of ${PROFILE_BINS} equal distance bins.`,
+    );
+  }
   for (const c of drawn) {
-    const at = new Map<string, { km: number; v: number }>();
     for (const b of c.buses!) {
-      at.set(b.id, { km: b.distanceKm, v: b.vPu });
-      points.push({ case: c.caseId, bus: b.id, km: b.distanceKm, v: b.vPu });
       levels.add(voltageLevelOf(b.vnKv, limits));
       xMax = Math.max(xMax, b.distanceKm);
       vLo = Math.min(vLo, b.vPu);
       vHi = Math.max(vHi, b.vPu);
+    }
+  }
+  for (const c of drawn) {
+    if (!detailed) {
+      binnedProfile(c, xMax, points, segments);
+      continue;
+    }
+    const at = new Map<string, { km: number; v: number }>();
+    for (const b of c.buses!) {
+      at.set(b.id, { km: b.distanceKm, v: b.vPu });
+      points.push({ case: c.caseId, bus: b.id, km: b.distanceKm, v: b.vPu });
     }
     for (const br of c.branches ?? []) {
       const f = at.get(br.from), t = at.get(br.to);
@@ -109,7 +167,8 @@ export async function voltageProfileChart(
       },
       {
         data: { values: segments },
-        mark: { type: "rule", strokeWidth: 1.6, clip: true },
+        // The branch lines add nothing a reader needs spelled out; the bus points keep theirs.
+        mark: { type: "rule", strokeWidth: 1.6, clip: true, aria: false },
         encoding: {
           x,
           x2: { field: "km2" },

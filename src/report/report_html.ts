@@ -29,6 +29,9 @@ import { layoutFeederTree } from "./_feeder_tree_layout.ts";
 import { worstVoltageColouring } from "./_bus_colouring.ts";
 import { renderFeederSchematic } from "./_feeder_schematic.ts";
 
+/** Above this many buses the schematic is left out (unreadable, and megabytes of SVG). */
+export const SCHEMATIC_MAX_BUSES = 2000;
+
 const notes = (xs: readonly string[]): Html =>
   html`${xs.map((n) => html`<p class="note">${n}</p>`)}`;
 
@@ -112,7 +115,16 @@ export async function renderFeederPage(file: FeederFile, ctx: ReportContext): Pr
   ]);
   let schematic: Html =
     html`<p class="note">No case has bus and branch results to draw the schematic from.</p>`;
-  if (drawnCase !== undefined) {
+  if (drawnCase !== undefined && drawnCase.buses!.length > SCHEMATIC_MAX_BUSES) {
+    schematic = html`
+      <p
+        class="note">The feeder has ${String(
+          drawnCase.buses!.length,
+        )} buses, more than the ${String(
+          SCHEMATIC_MAX_BUSES,
+        )} a readable schematic can show; its bus voltages are in buses.parquet.</p>
+    `;
+  } else if (drawnCase !== undefined) {
     const layout = layoutFeederTree(drawnCase.buses!, drawnCase.branches ?? []);
     const colouring = worstVoltageColouring(file.cases, ctx.limits);
     schematic = html`
