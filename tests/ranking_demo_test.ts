@@ -19,21 +19,29 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
       workers: 0,
       timeoutMs: 60_000,
     });
-    // Statutory (thermal) needs before the planning one; within the class by benefit per cost.
+    // Safety (a breaker below the fault level) first, then the statutory (thermal) needs,
+    // then the planning one; within a class by benefit per cost.
     assertEquals(run.ranking.map((n) => [n.rank, n.feederId, n.kind]), [
-      [1, "HTH-N2", "line_overload"],
-      [2, "HTH-N2", "device_overload"],
-      [3, "CTY-K4", "line_overload"],
-      [4, "MOR-L1", "voltage_change"],
+      [1, "CTY-K4", "device_duty"],
+      [2, "HTH-N2", "line_overload"],
+      [3, "HTH-N2", "device_overload"],
+      [4, "CTY-K4", "line_overload"],
+      [5, "MOR-L1", "voltage_change"],
     ]);
-    const perCost = run.ranking.slice(0, 3).map((n) => n.benefitPerCost!);
+    const perCost = run.ranking.slice(1, 4).map((n) => n.benefitPerCost!);
     assert(perCost[0]! >= perCost[1]! && perCost[1]! >= perCost[2]!);
+    // The old 16 kA breaker gives way to the next standard rating that interrupts the
+    // busbar's fault current.
+    assertEquals(
+      run.ranking[0]!.remedy?.description,
+      'Replace switching device "CTY-K4-H" by one rated 20 kA breaking',
+    );
     // The cable feeder is rebuilt with cable; the rural PV feeder gets a setting change that
     // also frees generation headroom.
-    assertEquals(run.ranking[2]!.remedy?.items.map((i) => i.what), [
+    assertEquals(run.ranking[3]!.remedy?.items.map((i) => i.what), [
       "rebuild line with MV cable 400 mm² Al",
     ]);
-    const rural = run.ranking[3]!;
+    const rural = run.ranking[4]!;
     assertEquals(rural.remedy?.kind, "reactive_mode");
     assert(rural.remedy!.capacityUnlockedMw! > 0);
     assert(rural.customers > 0);
@@ -48,7 +56,7 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
       comments: "#",
       skipEmptyLines: true,
     }).data;
-    assertEquals(rows.map((r) => r.feeder), ["HTH-N2", "HTH-N2", "CTY-K4", "MOR-L1"]);
+    assertEquals(rows.map((r) => r.feeder), ["CTY-K4", "HTH-N2", "HTH-N2", "CTY-K4", "MOR-L1"]);
     // Cost arithmetic: the bill of quantities adds up to the cost in every row.
     for (const n of run.ranking) {
       const sum = n.remedy!.items.reduce((s, i) => s + i.cost, 0);
@@ -57,7 +65,7 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
     }
 
     const fleet = JSON.parse(await Deno.readTextFile(`${TMP}/fleet.json`));
-    assertEquals(fleet.totals.needs, 4);
+    assertEquals(fleet.totals.needs, 5);
     assertEquals(fleet.totals.feedersWithNeeds, 3);
     assertEquals(fleet.feeders.length, 13);
     assertEquals(fleet.caution, CAUTION);

@@ -23,6 +23,7 @@ Deno.test("runStudy() writes the run folder, identical between runs but for run.
       "branches.parquet",
       "buses.parquet",
       "diagnostics.csv",
+      "faults.csv",
       "feeders/SOU-F1.json",
       "feeders/SOU-F2.json",
       "feeders/SOU-F3.json",
@@ -71,8 +72,8 @@ Deno.test("runStudy() writes the same bytes with 1, 2 and 4 workers as in one th
       delete t["run.json"];
       trees.push(t);
     }
-    // 13 feeders, findings, diagnostics, ranking, fleet, buses, branches and the report.
-    assertEquals(Object.keys(trees[0]!).length, 20);
+    // 13 feeders, findings, diagnostics, ranking, fleet, faults, buses, branches, report.
+    assertEquals(Object.keys(trees[0]!).length, 21);
     for (const t of trees.slice(1)) assertEquals(t, trees[0]);
   } finally {
     await Deno.remove(TMP, { recursive: true }).catch(() => {});

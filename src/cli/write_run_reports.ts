@@ -17,6 +17,7 @@ import { fleetJson, rankingCsv, type RankingProvenance } from "../report/ranking
 import { createBusParquetWriter } from "../report/bus_parquet.ts";
 import { createBranchParquetWriter } from "../report/branch_parquet.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
+import { faultsCsvHead, faultsCsvRows } from "../report/faults_csv.ts";
 import { openAtomicFile } from "./open_atomic_file.ts";
 
 export interface RunReportInput {
@@ -53,6 +54,9 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
     inputHash: record.inputHash,
     configHash: record.configHash,
   };
+  const faults = await openAtomicFile(join(outDir, "faults.csv"));
+  const encoder = new TextEncoder();
+  await faults.write(encoder.encode(faultsCsvHead(provenance)));
   const buses = await openAtomicFile(join(outDir, "buses.parquet"));
   const branches = await openAtomicFile(join(outDir, "branches.parquet"));
   const rows: FleetFeederRow[] = [];
@@ -65,15 +69,19 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
       rows.push(fleetRow(file, config.ranking.classOrder));
       needs.push(...(file.needs ?? []));
       await busWriter.addFeeder(file);
+      const faultRows = faultsCsvRows(file);
+      if (faultRows !== "") await faults.write(encoder.encode(faultRows));
       await branchWriter.addFeeder(file);
     }
     await busWriter.finish();
     await branchWriter.finish();
     await buses.commit();
     await branches.commit();
+    await faults.commit();
   } finally {
     await buses.abandon();
     await branches.abandon();
+    await faults.abandon();
   }
   const ranking = rankNeeds(needs, config.ranking);
   await writeFileAtomic(join(outDir, "ranking.csv"), rankingCsv(ranking, provenance));
@@ -84,7 +92,14 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
   await writeReportHtml(outDir, files, rows, ranking, record, config);
   return {
     ranking,
-    files: ["ranking.csv", "fleet.json", "buses.parquet", "branches.parquet", "report.html"],
+    files: [
+      "ranking.csv",
+      "fleet.json",
+      "faults.csv",
+      "buses.parquet",
+      "branches.parquet",
+      "report.html",
+    ],
   };
 }
 

@@ -1,7 +1,7 @@
 /**
- * Schemas of the pipeline config's `costs`, `remedies` and `ranking` sections (the unit-cost
- * table and catalogue the remedy design prices with, and how the ranking orders needs).
- * Private to pipeline_config.ts.
+ * Schemas of the pipeline config's `faults`, `costs`, `remedies` and `ranking` sections (the
+ * short-circuit study's settings, the unit-cost table and catalogue the remedy design prices
+ * with, and how the ranking orders needs). Private to pipeline_config.ts.
  */
 import { z } from "zod";
 import {
@@ -14,8 +14,28 @@ import {
   type RemedyOptions,
 } from "../rank/cost_table.ts";
 import { NEED_CLASSES, type NeedClass } from "../rank/need.ts";
+import { DEFAULT_FAULT_SETTINGS, type FaultSettings } from "../solve/fault_settings.ts";
 
 const cost = z.number().min(0);
+const F = DEFAULT_FAULT_SETTINGS;
+const cFactor = z.number().min(0.8).max(1.2);
+
+export const faultSettingsSchema: z.ZodType<FaultSettings, unknown> = z.strictObject({
+  enabled: z.boolean().default(F.enabled),
+  cMaxMv: cFactor.default(F.cMaxMv),
+  cMinMv: cFactor.default(F.cMinMv),
+  cMaxLv: cFactor.default(F.cMaxLv),
+  cMinLv: cFactor.default(F.cMinLv),
+  lineEndTemperatureC: z.number().min(20).max(250).default(F.lineEndTemperatureC),
+  minWithGeneration: z.boolean().default(F.minWithGeneration),
+  converterLimitPu: z.number().gt(0).max(5).default(F.converterLimitPu),
+  synchronousPowerFactor: z.number().gt(0).max(1).default(F.synchronousPowerFactor),
+  dutyWarnPercent: z.number().gt(0).max(100).default(F.dutyWarnPercent),
+  generationIncreaseLimitPercent: z.number().gt(0).max(1000).default(
+    F.generationIncreaseLimitPercent,
+  ),
+  meshedMaxBuses: z.number().int().min(2).max(20_000).default(F.meshedMaxBuses),
+});
 const C = DEFAULT_COST_TABLE, R = DEFAULT_REMEDY_OPTIONS, K = DEFAULT_RANKING_OPTIONS;
 
 const conductorSchema: z.ZodType<CatalogueConductor, unknown> = z.strictObject({
@@ -59,6 +79,8 @@ export const remedyOptionsSchema: z.ZodType<RemedyOptions, unknown> = z.strictOb
     .default(() => [...R.transformerSizesMva]),
   switchRatingsA: z.array(z.number().gt(0)).min(1).superRefine(ascending("rating"))
     .default(() => [...R.switchRatingsA]),
+  breakingRatingsKa: z.array(z.number().gt(0)).min(1).superRefine(ascending("rating"))
+    .default(() => [...R.breakingRatingsKa]),
   regulatorRangePercent: z.number().gt(0).max(30).default(R.regulatorRangePercent),
   headroomMaxFactor: z.number().gt(1).max(100).default(R.headroomMaxFactor),
 });

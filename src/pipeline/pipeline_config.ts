@@ -36,7 +36,13 @@ import {
   type RankingOptions,
   type RemedyOptions,
 } from "../rank/cost_table.ts";
-import { costTableSchema, rankingOptionsSchema, remedyOptionsSchema } from "./_ranking_schema.ts";
+import {
+  costTableSchema,
+  faultSettingsSchema,
+  rankingOptionsSchema,
+  remedyOptionsSchema,
+} from "./_ranking_schema.ts";
+import { DEFAULT_FAULT_SETTINGS, type FaultSettings } from "../solve/fault_settings.ts";
 
 export type { VoltageRange };
 
@@ -68,6 +74,7 @@ export interface PipelineOutput {
 
 /** A parsed pipeline config: every field filled, defaults included. */
 export interface PipelineConfig {
+  readonly faults: FaultSettings;
   readonly costs: CostTable;
   readonly remedies: RemedyOptions;
   readonly ranking: RankingOptions;
@@ -138,6 +145,7 @@ export const DEFAULT_PIPELINE: PipelineConfig = {
     losses: true,
   },
   output: { busResults: true, branchResults: true, reportFeederPages: 200 },
+  faults: DEFAULT_FAULT_SETTINGS,
   costs: DEFAULT_COST_TABLE,
   remedies: DEFAULT_REMEDY_OPTIONS,
   ranking: DEFAULT_RANKING_OPTIONS,
@@ -271,6 +279,7 @@ export const pipelineConfigSchema: z.ZodType<PipelineConfig, unknown> = z.strict
     branchResults: flag(O.branchResults),
     reportFeederPages: z.number().int().min(0).max(100_000).default(O.reportFeederPages),
   }).prefault({}),
+  faults: faultSettingsSchema.prefault({}),
   costs: costTableSchema.prefault({}),
   remedies: remedyOptionsSchema.prefault({}),
   ranking: rankingOptionsSchema.prefault({}),

@@ -19,6 +19,9 @@ import type { CostTable, RemedyOptions } from "../rank/cost_table.ts";
 import { assessFeeder } from "../rank/assess_feeder.ts";
 import type { DeviceCurves } from "../report/feeder_file.ts";
 import { describeDevices } from "../report/describe_devices.ts";
+import type { FaultSettings } from "../solve/fault_settings.ts";
+import { type FaultStudy, roundFaultStudy, studyFaults } from "../solve/study_faults.ts";
+import { checkFaults } from "../checks/check_faults.ts";
 
 export interface StudyCase extends LoadFlowCase {
   readonly label?: string | undefined;
@@ -33,6 +36,7 @@ export interface CaseSettings {
 }
 
 export interface StudySettings extends CaseSettings {
+  readonly faults: FaultSettings;
   readonly costs: CostTable;
   readonly remedies: RemedyOptions;
 }
@@ -96,8 +100,10 @@ export interface CasesStudy {
   readonly diagnostics: readonly Diagnostic[];
 }
 
-/** The whole study of a feeder: its cases, and its needs with their remedies. */
+/** The whole study of a feeder: its cases, its faults, and its needs with their remedies. */
 export interface FeederStudy extends CasesStudy {
+  /** The short-circuit study, rounded for the file (null when off or the cases failed). */
+  readonly faults: FaultStudy | null;
   readonly needs: readonly Need[];
   readonly headroom: DgHeadroom | null;
   readonly devices: readonly DeviceCurves[];
@@ -111,10 +117,25 @@ const round = (v: number, digits: number) => {
 
 export function studyFeeder(form: FeederForm, settings: StudySettings): FeederStudy {
   const cases = studyCases(form, settings);
+  const faults = cases.status === "studied" && settings.faults.enabled
+    ? studyFaults(form, settings.faults, settings.limits.lvMaxKv)
+    : null;
+  const findings = faults === null
+    ? cases.findings
+    : [...cases.findings, ...checkFaults(form, faults, settings.faults)].sort(compareFindings);
   const assessed = cases.status === "studied"
-    ? assessFeeder(form, settings, cases.findings)
+    ? assessFeeder(form, settings, findings)
     : { needs: [], headroom: null };
-  return { ...cases, ...assessed, devices: describeDevices(form) };
+  return {
+    ...cases,
+    findings,
+    diagnostics: faults === null
+      ? cases.diagnostics
+      : [...cases.diagnostics, ...faults.diagnostics],
+    faults: faults === null ? null : roundFaultStudy(faults),
+    ...assessed,
+    devices: describeDevices(form),
+  };
 }
 
 /** Every case's load flow and checks (what remedy trials repeat on changed forms). */

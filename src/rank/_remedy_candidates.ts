@@ -40,6 +40,7 @@ export const REMEDY_ORDER: Readonly<Record<NeedKind, readonly RemedyKind[]>> = {
   line_overload: ["reconductor"],
   transformer_overload: ["transformer"],
   device_overload: ["switchgear"],
+  device_duty: ["switchgear"],
 };
 
 /**
@@ -78,7 +79,9 @@ export function* candidatesFor(
       yield* transformerCandidates(need, ctx);
       break;
     case "switchgear":
-      yield* switchgearCandidates(need, ctx);
+      yield* need.kind === "device_duty"
+        ? dutySwitchgearCandidates(need, ctx)
+        : switchgearCandidates(need, ctx);
       break;
   }
 }
@@ -375,4 +378,50 @@ function* switchgearCandidates(need: NeedDraft, ctx: CandidateContext): Generato
 function round(v: number, digits: number): number {
   const f = 10 ** digits;
   return Math.round(v * f) / f;
+}
+
+/**
+ * Devices that cannot interrupt or make the fault current, replaced by the next standard
+ * breaking currents that can (making current 2.5 × breaking, IEC 62271-100 at 50 Hz
+ * [memory]); the evidence gives each device's duty in % of its rating.
+ */
+function* dutySwitchgearCandidates(need: NeedDraft, ctx: CandidateContext): Generator<Candidate> {
+  const f = ctx.form;
+  const requiredKa = new Map<number, number>();
+  for (const e of need.evidence) {
+    const i = f.devices.findIndex((d) => d.id === e.where.id);
+    const d = f.devices[i];
+    if (d === undefined) return;
+    const rated = e.code === "fault.making_duty"
+      ? (d.makingCurrentA ?? 0) / 2.5
+      : d.breakingCurrentA ?? 0;
+    requiredKa.set(i, Math.max(requiredKa.get(i) ?? 0, rated * e.value / 100 / 1000));
+  }
+  for (let grade = 0; grade < 2; grade++) {
+    const devices = [...f.devices];
+    const parts: string[] = [];
+    for (const [i, ka] of requiredKa) {
+      const rating = ctx.options.breakingRatingsKa.filter((r) => r >= ka)[grade];
+      if (rating === undefined) return;
+      devices[i] = {
+        ...devices[i]!,
+        breakingCurrentA: 1000 * rating,
+        makingCurrentA: 2500 * rating,
+      };
+      parts.push(`"${devices[i]!.id}" by one rated ${rating} kA breaking`);
+    }
+    yield {
+      kind: "switchgear",
+      description: `Replace switching device ${parts.join(", ")}`,
+      items: [
+        item(
+          "switching device replacement",
+          requiredKa.size,
+          "each",
+          ctx.costs.switchgearReplacement,
+        ),
+      ],
+      form: { ...f, devices },
+    };
+  }
 }

@@ -17,6 +17,8 @@ export const NEED_RULES: Readonly<
   "voltage.below_band": { needClass: "statutory", kind: "undervoltage" },
   "voltage.dg_change": { needClass: "planning", kind: "voltage_change" },
   "thermal.overload": { needClass: "statutory", kind: "by_branch" },
+  "fault.breaking_duty": { needClass: "safety", kind: "device_duty" },
+  "fault.making_duty": { needClass: "safety", kind: "device_duty" },
 };
 
 const NEED_KIND_ORDER: readonly NeedKind[] = [
@@ -26,6 +28,7 @@ const NEED_KIND_ORDER: readonly NeedKind[] = [
   "line_overload",
   "transformer_overload",
   "device_overload",
+  "device_duty",
 ];
 
 /** A need before its remedy is designed. */
@@ -146,6 +149,7 @@ const WHAT: Record<NeedKind, string> = {
   line_overload: "Line overloaded",
   transformer_overload: "Transformer overloaded",
   device_overload: "Switching device overloaded",
+  device_duty: "Fault current beyond what a switching device can interrupt or make",
 };
 
 function summarize(kind: NeedKind, worst: Finding, places: number, cases: string[]): string {

@@ -47,6 +47,8 @@ export interface RemedyOptions {
   readonly transformerSizesMva: readonly number[];
   /** Standard switching-device ratings a replacement is chosen from, A ascending. */
   readonly switchRatingsA: readonly number[];
+  /** Standard breaking currents a replacement is chosen from, kA ascending (making 2.5×). */
+  readonly breakingRatingsKa: readonly number[];
   /** Range of a line voltage regulator, ± % of nominal. */
   readonly regulatorRangePercent: number;
   /** The headroom search looks for the connected generation times at most this factor. */
@@ -160,6 +162,8 @@ export const DEFAULT_REMEDY_OPTIONS: RemedyOptions = {
     63,
   ],
   switchRatingsA: [100, 160, 200, 250, 315, 400, 630, 800, 1250, 1600, 2000], // common practice (IEC preferred ratings)
+  // IEC 62271-100 preferred rated short-circuit breaking currents [memory]
+  breakingRatingsKa: [8, 10, 12.5, 16, 20, 25, 31.5, 40, 50, 63],
   regulatorRangePercent: 10, // common practice: ±10 % in 32 steps
   headroomMaxFactor: 8,
 };

@@ -6,7 +6,11 @@
  * the earlier kind). What each kind gave is kept as `tried`, for the evidence.
  */
 import type { FeederForm } from "../model/feeder_form.ts";
-import { type CaseSettings, studyCases } from "../pipeline/study_feeder.ts";
+import { type CaseSettings, studyCases, type StudySettings } from "../pipeline/study_feeder.ts";
+import { studyFaults } from "../solve/study_faults.ts";
+import { checkFaults } from "../checks/check_faults.ts";
+import type { Finding } from "../checks/finding.ts";
+
 import type { CostTable, RemedyOptions } from "./cost_table.ts";
 import type { DgHeadroom, Need, NeedKind, Remedy, RemedyTried } from "./need.ts";
 import { type NeedDraft, needKindOf } from "./classify_needs.ts";
@@ -14,7 +18,7 @@ import { type Candidate, candidatesFor, REMEDY_ORDER } from "./_remedy_candidate
 import { computeDgHeadroom } from "./dg_headroom.ts";
 
 export interface RemedySettings {
-  readonly settings: CaseSettings;
+  readonly settings: StudySettings;
   readonly costs: CostTable;
   readonly options: RemedyOptions;
   /** Headroom of the feeder as it is (null without generation). */
@@ -49,13 +53,20 @@ export function designRemedies(
     }
     const r = studyCases(c.form, lean);
     if (r.status !== "studied") return "the feeder does not solve with it";
-    const left = r.findings.filter((f) => needKindOf(form, f) === need.kind);
+    const findings: Finding[] = [...r.findings];
+    // The short-circuit study too: it shows a duty need removed, and a remedy that raises
+    // fault levels (new copper, say) beyond what a device can interrupt.
+    if (s.settings.faults.enabled) {
+      const f = s.settings.faults;
+      findings.push(...checkFaults(c.form, studyFaults(c.form, f, lean.limits.lvMaxKv), f));
+    }
+    const left = findings.filter((f) => needKindOf(form, f) === need.kind);
     if (left.length > 0) {
       return `${left.length} finding(s) of the need remain`;
     }
     const caused = [
       ...new Set(
-        r.findings.map((f) => needKindOf(form, f)).filter((k): k is NeedKind =>
+        findings.map((f) => needKindOf(form, f)).filter((k): k is NeedKind =>
           k !== null && !kindsBefore.has(k)
         ),
       ),

@@ -20,7 +20,8 @@ export type NeedKind =
   | "voltage_change"
   | "line_overload"
   | "transformer_overload"
-  | "device_overload";
+  | "device_overload"
+  | "device_duty";
 
 /** One finding behind a need, reduced to what the evidence needs. */
 export interface NeedEvidence {

@@ -9,6 +9,7 @@ import type { CaseOutcome } from "../pipeline/study_feeder.ts";
 import type { DgHeadroom, Need } from "../rank/need.ts";
 import type { CurvePoint, RelayStage } from "../model/network.ts";
 import type { FeederProvenance } from "./run_files.ts";
+import type { FaultStudy } from "../solve/study_faults.ts";
 
 /** A switching device with the settings needed to draw its time–current curves. */
 export interface DeviceCurves {
@@ -37,6 +38,8 @@ export interface FeederFile {
   readonly summary: FeederSummary;
   readonly cases: readonly CaseOutcome[];
   readonly findings: readonly Finding[];
+  /** The short-circuit study (absent in files written before it, null when off). */
+  readonly faults?: FaultStudy | null;
   readonly needs: readonly Need[];
   readonly headroom: DgHeadroom | null;
   readonly devices: readonly DeviceCurves[];

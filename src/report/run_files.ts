@@ -144,6 +144,7 @@ export function feederJson(
       summary,
       cases: study?.cases ?? [],
       findings: study?.findings ?? [],
+      faults: study?.faults ?? null,
       needs: study?.needs ?? [],
       headroom: study?.headroom ?? null,
       devices: study?.devices ?? [],
