@@ -22,13 +22,13 @@ export const NEED_RULES: Readonly<
 };
 
 const NEED_KIND_ORDER: readonly NeedKind[] = [
+  "device_duty",
   "overvoltage",
   "undervoltage",
   "voltage_change",
   "line_overload",
   "transformer_overload",
   "device_overload",
-  "device_duty",
 ];
 
 /** A need before its remedy is designed. */

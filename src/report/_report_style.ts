@@ -41,6 +41,7 @@ thead th { background: var(--soft); font-weight: 600; vertical-align: bottom; }
 tbody tr:hover { background: #f8f9fa; }
 td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; }
 td.num { white-space: nowrap; }
+tr.over td { color: #8a3b3b; font-weight: 600; }
 #ranking-table td:nth-child(4) { min-width: 300px; }
 #ranking-table td:nth-child(5) { min-width: 200px; }
 th button { font: inherit; font-weight: 600; color: inherit; background: none; border: 0; padding: 0; cursor: pointer; text-align: inherit; }

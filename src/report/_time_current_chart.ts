@@ -162,13 +162,27 @@ export function timeCurrentSeries(devices: readonly DeviceCurves[]): TccData | n
 }
 
 /** SVG of the time–current plot, or null when no device has curves. */
+/** A fault current marked on the plot as a vertical line with its label. */
+export interface FaultMark {
+  readonly label: string;
+  readonly iA: number;
+}
+
 export async function timeCurrentChart(
   devices: readonly DeviceCurves[],
   idPrefix: string,
+  faultMarks: readonly FaultMark[] = [],
 ): Promise<{ svg: string | null; notes: readonly string[] }> {
-  const data = timeCurrentSeries(devices);
-  if (data === null) return { svg: null, notes: [] };
-  if (data.series.length === 0) return { svg: null, notes: data.notes };
+  const series = timeCurrentSeries(devices);
+  if (series === null) return { svg: null, notes: [] };
+  if (series.series.length === 0) return { svg: null, notes: series.notes };
+  // The current axis reaches the marked fault currents too, in whole decades.
+  const marks = faultMarks.filter((m) => m.iA > 0 && Number.isFinite(m.iA));
+  const data = {
+    ...series,
+    iMinA: Math.min(series.iMinA, ...marks.map((m) => 10 ** Math.floor(Math.log10(m.iA)))),
+    iMaxA: Math.max(series.iMaxA, ...marks.map((m) => 10 ** Math.ceil(Math.log10(m.iA)))),
+  };
   const keys = [...new Set(data.series.map((s) => s.colourKey))];
   const values = data.series.flatMap((s) =>
     s.points.map((p) => ({ series: s.name, key: s.colourKey, style: s.style, iA: p.iA, tS: p.tS }))
@@ -216,6 +230,22 @@ export async function timeCurrentChart(
     layer: [
       gridLayer(false),
       gridLayer(true),
+      {
+        data: { values: marks.map((m) => ({ ...m, tS: TCC_MIN_S, tS2: TCC_MAX_S })) },
+        mark: { type: "rule" as const, strokeWidth: 1.2, color: "#5a2d0c", strokeDash: [2, 2] },
+        encoding: { x, y, y2: { field: "tS2" } },
+      },
+      {
+        data: { values: marks.map((m, i) => ({ ...m, tS: TCC_MAX_S / 1.6 ** (i * 2 + 1) })) },
+        mark: {
+          type: "text" as const,
+          align: "left" as const,
+          dx: 3,
+          fontSize: 9,
+          color: "#5a2d0c",
+        },
+        encoding: { x, y, text: { field: "label", type: "nominal" as const } },
+      },
       {
         data: { values },
         mark: { type: "line", strokeWidth: 1.7, clip: true, interpolate: "linear" },

@@ -24,10 +24,11 @@ import {
   renderNeeds,
 } from "./_feeder_sections.ts";
 import { voltageProfileChart } from "./_voltage_profile_chart.ts";
-import { timeCurrentChart } from "./_time_current_chart.ts";
+import { type FaultMark, timeCurrentChart } from "./_time_current_chart.ts";
 import { layoutFeederTree } from "./_feeder_tree_layout.ts";
 import { worstVoltageColouring } from "./_bus_colouring.ts";
 import { renderFeederSchematic } from "./_feeder_schematic.ts";
+import { renderFaultLevels } from "./_fault_levels.ts";
 
 /** Above this many buses the schematic is left out (unreadable, and megabytes of SVG). */
 export const SCHEMATIC_MAX_BUSES = 2000;
@@ -105,13 +106,34 @@ export async function renderReportHead(ctx: ReportContext): Promise<string> {
   `.__html.trimStart();
 }
 
+/** The fault currents the time–current plot marks: the largest and the smallest on the feeder. */
+function faultMarks(file: FeederFile): FaultMark[] {
+  const f = file.faults;
+  if (f === undefined || f === null || f.buses.length === 0) return [];
+  const own = f.buses.filter((b) => b.id !== f.buses[0]!.id);
+  const rows = own.length > 0 ? own : f.buses;
+  const ka = (xs: (number | null)[], pick: (...v: number[]) => number) => {
+    const v = xs.filter((x): x is number => x !== null && x > 0);
+    return v.length === 0 ? null : pick(...v);
+  };
+  const marks: FaultMark[] = [];
+  const max3 = ka(rows.map((b) => b.max.ik3Ka), Math.max);
+  const min2 = ka(rows.map((b) => b.min.ik2Ka), Math.min);
+  const min1 = ka(rows.map((b) => b.min.ik1Ka), Math.min);
+  if (max3 !== null) marks.push({ label: `max I″k3 ${max3.toFixed(2)} kA`, iA: 1000 * max3 });
+  if (min2 !== null) marks.push({ label: `min I″k2 ${min2.toFixed(2)} kA`, iA: 1000 * min2 });
+  if (min1 !== null) marks.push({ label: `min I″k1 ${min1.toFixed(2)} kA`, iA: 1000 * min1 });
+  return marks;
+}
+
 /** One feeder's section; its id is the feeder's anchor. */
 export async function renderFeederPage(file: FeederFile, ctx: ReportContext): Promise<string> {
   const anchor = feederAnchor(file.feederId);
   const drawnCase = file.cases.find((c) => c.converged && (c.buses?.length ?? 0) > 0);
-  const [profile, tcc] = await Promise.all([
+  const [profile, tcc, faultLevels] = await Promise.all([
     voltageProfileChart(file.cases, ctx.limits, `${anchor}-vp`),
-    timeCurrentChart(file.devices, `${anchor}-tc`),
+    timeCurrentChart(file.devices, `${anchor}-tc`, faultMarks(file)),
+    renderFaultLevels(file, `${anchor}-fl`),
   ]);
   let schematic: Html =
     html`<p class="note">No case has bus and branch results to draw the schematic from.</p>`;
@@ -173,13 +195,18 @@ export async function renderFeederPage(file: FeederFile, ctx: ReportContext): Pr
     )}${notes(profile.notes)}
     <h3>Schematic</h3>
     ${schematic}
+    <h3>Fault levels</h3>
+    ${faultLevels}
     <h3>Protection: time–current curves</h3>
     ${figure(
       tcc.svg,
       html`Operating time against current, log–log. Relays: the fastest stage at each current, per element (and per recloser curve set). Fuses: melting and total clearing curves. Each relay curve rises at its lowest pickup; relay times below 0.01 s (instantaneous stages) are drawn at 0.01 s.`,
       "No protective device with time–current settings on this feeder.",
     )}${notes(tcc.notes)}
-    <p class="note">Fault currents are not computed in this run, so none are marked on the curves.</p>
+    <p class="note">${file.faults === undefined || file.faults === null ||
+        file.faults.buses.length === 0
+      ? "Fault currents are not computed in this run, so none are marked on the curves."
+      : "Dotted lines: the largest three-phase fault current on the feeder (maximum condition, generation in service) and the smallest line-to-line and line-to-earth currents (minimum condition), which the protection must clear."}</p>
     <h3>Findings</h3>
     ${renderFindingsSummary(file)}
     </section>
