@@ -23,6 +23,7 @@ import {
   type SequenceNetworks,
 } from "./_fault_networks.ts";
 import { solveTreeThevenin, type TreeThevenin } from "./tree_thevenin.ts";
+import { treeColumn } from "./tree_column.ts";
 
 /** Initial short-circuit currents at a bus for one condition, kA. */
 export interface BusFaultCurrents {
@@ -219,10 +220,7 @@ export function faultCurrents(
   };
 }
 
-/**
- * Adds |Z(1)kj|·I to eff[k] for every bus k: the column j of the impedance matrix of a
- * tree, found by walking out from j with the voltage divider of each branch.
- */
+/** Adds |Z(1)kj|·I to eff[k] for every bus k (column j of the tree's impedance matrix). */
 function addTransferMagnitudes(
   form: FeederForm,
   t: TreeThevenin,
@@ -233,52 +231,9 @@ function addTransferMagnitudes(
   eff: Float64Array,
 ): void {
   const n = form.nBus;
-  const vRe = new Float64Array(n), vIm = new Float64Array(n), seen = new Uint8Array(n);
-  vRe[j] = t.zthRe[j]!;
-  vIm[j] = t.zthIm[j]!;
-  seen[j] = 1;
-  // Up the path to the source: at each parent the rest of the network is yTot − yBranch.
-  const order: number[] = [j];
-  for (let k = j; k > 0;) {
-    const p = form.parent[k]!;
-    const yr = t.ySubRe[p]! + t.yUpRe[p]! - t.yBranchRe[k]!,
-      yi = t.ySubIm[p]! + t.yUpIm[p]! - t.yBranchIm[k]!;
-    mulDivider(vRe, vIm, k, p, zRe[k - 1]!, zIm[k - 1]!, yr, yi);
-    seen[p] = 1;
-    order.push(p);
-    k = p;
-  }
-  // Down every other subtree from the buses reached: in breadth-first order, a child's
-  // voltage follows its parent's through the child's branch and subtree.
-  for (let k = 1; k < n; k++) {
-    if (seen[k]) continue;
-    const p = form.parent[k]!;
-    mulDivider(vRe, vIm, p, k, zRe[k - 1]!, zIm[k - 1]!, t.ySubRe[k]!, t.ySubIm[k]!);
-    seen[k] = 1;
-  }
+  const vRe = new Float64Array(n), vIm = new Float64Array(n);
+  treeColumn(form.parent, t, zRe, zIm, j, vRe, vIm);
   for (let k = 0; k < n; k++) eff[k] = eff[k]! + Math.hypot(vRe[k]!, vIm[k]!) * iPu;
-}
-
-/** v[to] = v[from] · (1/y)/(z + 1/y) = v[from] / (1 + z·y); zero across an open branch. */
-function mulDivider(
-  vRe: Float64Array,
-  vIm: Float64Array,
-  from: number,
-  to: number,
-  zr: number,
-  zi: number,
-  yr: number,
-  yi: number,
-): void {
-  if (!Number.isFinite(zr) || !Number.isFinite(zi)) {
-    vRe[to] = 0;
-    vIm[to] = 0;
-    return;
-  }
-  const dr = 1 + zr * yr - zi * yi, di = zr * yi + zi * yr;
-  const d2 = dr * dr + di * di;
-  vRe[to] = (vRe[from]! * dr + vIm[from]! * di) / d2;
-  vIm[to] = (vIm[from]! * dr - vRe[from]! * di) / d2;
 }
 
 /**

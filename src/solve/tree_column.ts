@@ -1,0 +1,64 @@
+/**
+ * One column of the bus impedance matrix of a tree network in O(n), from its Thevenin pass
+ * (tree_thevenin.ts): the voltage at every bus for a unit current injected at bus j. It
+ * starts at Zth[j] and walks out with the voltage divider of each branch: up the path to
+ * the source (at each parent, the rest of the network is yTot − yBranch of the child it
+ * came from), then down every other subtree (a child sees its own subtree ySub). A bus
+ * cut off by an open branch gets zero.
+ */
+import type { TreeThevenin } from "./tree_thevenin.ts";
+
+export function treeColumn(
+  parent: Int32Array,
+  t: TreeThevenin,
+  zRe: Float64Array,
+  zIm: Float64Array,
+  j: number,
+  outRe: Float64Array,
+  outIm: Float64Array,
+): void {
+  const n = t.zthRe.length;
+  const seen = new Uint8Array(n);
+  outRe.fill(0, 0, n);
+  outIm.fill(0, 0, n);
+  if (!Number.isFinite(t.zthRe[j]!)) return; // no path to earth: no voltage anywhere
+  outRe[j] = t.zthRe[j]!;
+  outIm[j] = t.zthIm[j]!;
+  seen[j] = 1;
+  for (let k = j; k > 0;) {
+    const p = parent[k]!;
+    const yr = t.ySubRe[p]! + t.yUpRe[p]! - t.yBranchRe[k]!,
+      yi = t.ySubIm[p]! + t.yUpIm[p]! - t.yBranchIm[k]!;
+    divide(outRe, outIm, k, p, zRe[k - 1]!, zIm[k - 1]!, yr, yi);
+    seen[p] = 1;
+    k = p;
+  }
+  for (let k = 1; k < n; k++) {
+    if (seen[k]) continue;
+    const p = parent[k]!;
+    divide(outRe, outIm, p, k, zRe[k - 1]!, zIm[k - 1]!, t.ySubRe[k]!, t.ySubIm[k]!);
+    seen[k] = 1;
+  }
+}
+
+/** v[to] = v[from] · (1/y)/(z + 1/y) = v[from] / (1 + z·y); zero across an open branch. */
+function divide(
+  vRe: Float64Array,
+  vIm: Float64Array,
+  from: number,
+  to: number,
+  zr: number,
+  zi: number,
+  yr: number,
+  yi: number,
+): void {
+  if (!Number.isFinite(zr) || !Number.isFinite(zi)) {
+    vRe[to] = 0;
+    vIm[to] = 0;
+    return;
+  }
+  const dr = 1 + zr * yr - zi * yi, di = zr * yi + zi * yr;
+  const d2 = dr * dr + di * di;
+  vRe[to] = (vRe[from]! * dr + vIm[from]! * di) / d2;
+  vIm[to] = (vIm[from]! * dr - vRe[from]! * di) / d2;
+}
