@@ -8,6 +8,7 @@ import { type Html, html, raw } from "./_html.ts";
 import { formatNumber } from "./_number_text.ts";
 import { renderVegaLiteSvg } from "./_vega_svg.ts";
 import { SERIES_COLOURS } from "./_chart_palette.ts";
+import { PROFILE_BINS, PROFILE_DETAIL_BUSES } from "./_voltage_profile_chart.ts";
 
 const SERIES = [
   "max I″k3, generation in",
@@ -16,6 +17,25 @@ const SERIES = [
   "min I″k1",
 ] as const;
 
+type Point = { series: string; km: number; ka: number; bus: string };
+
+/** Per series, the lowest and highest current in each of PROFILE_BINS distance bins. */
+function binExtremes(values: readonly Point[]): Point[] {
+  const kmMax = Math.max(0, ...values.map((v) => v.km));
+  const width = kmMax > 0 ? kmMax / PROFILE_BINS : 1;
+  const keep = new Map<string, { lo: Point; hi: Point }>();
+  for (const v of values) {
+    const key = `${v.series}|${Math.min(PROFILE_BINS - 1, Math.floor(v.km / width))}`;
+    const e = keep.get(key);
+    if (e === undefined) keep.set(key, { lo: v, hi: v });
+    else {
+      if (v.ka < e.lo.ka) e.lo = v;
+      if (v.ka > e.hi.ka) e.hi = v;
+    }
+  }
+  return [...keep.values()].flatMap((e) => (e.lo === e.hi ? [e.lo] : [e.lo, e.hi]));
+}
+
 export async function renderFaultLevels(file: FeederFile, idPrefix: string): Promise<Html> {
   const f = file.faults;
   if (f === undefined || f === null || f.buses.length === 0) {
@@ -23,7 +43,7 @@ export async function renderFaultLevels(file: FeederFile, idPrefix: string): Pro
   }
   const distance = new Map<string, number>();
   for (const c of file.cases) for (const b of c.buses ?? []) distance.set(b.id, b.distanceKm);
-  const values: { series: string; km: number; ka: number; bus: string }[] = [];
+  let values: Point[] = [];
   for (const b of f.buses) {
     const km = distance.get(b.id);
     if (km === undefined) continue;
@@ -35,6 +55,8 @@ export async function renderFaultLevels(file: FeederFile, idPrefix: string): Pro
     add(SERIES[2], b.min.ik2Ka);
     add(SERIES[3], b.min.ik1Ka);
   }
+  const binned = f.buses.length > PROFILE_DETAIL_BUSES;
+  if (binned) values = binExtremes(values);
   const svg = values.length === 0 ? null : await renderVegaLiteSvg({
     width: 560,
     height: 220,

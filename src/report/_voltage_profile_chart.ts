@@ -13,7 +13,7 @@ import { voltageLevelOf } from "./_voltage_band.ts";
  * Above this many buses a case is drawn binned: a chart of every bus and branch of a very
  * large feeder is unreadable and takes seconds to render.
  */
-export const PROFILE_DETAIL_BUSES = 1500;
+export const PROFILE_DETAIL_BUSES = 600;
 /** Distance bins of a binned profile. */
 export const PROFILE_BINS = 200;
 

@@ -23,7 +23,7 @@ import {
   type SequenceNetworks,
 } from "./_fault_networks.ts";
 import { solveTreeThevenin, type TreeThevenin } from "./tree_thevenin.ts";
-import { treeColumn } from "./tree_column.ts";
+import { transferMagnitudeSums } from "./tree_column.ts";
 
 /** Initial short-circuit currents at a bus for one condition, kA. */
 export interface BusFaultCurrents {
@@ -139,17 +139,15 @@ function solveCondition(
     const t0 = solveTreeThevenin(n, form.parent, nets.z0Re, nets.z0Im, nets.y0Re, nets.y0Im);
     z1Re.set(t1.zthRe), z1Im.set(t1.zthIm), z2Re.set(t2.zthRe), z2Im.set(t2.zthIm);
     z0Re.set(t0.zthRe), z0Im.set(t0.zthIm);
-    for (let j = 0; j < nets.converterBus.length; j++) {
-      addTransferMagnitudes(
-        form,
-        t1,
-        nets.z1Re,
-        nets.z1Im,
-        nets.converterBus[j]!,
-        nets.converterIPu[j]!,
-        eff,
-      );
-    }
+    const sums = transferMagnitudeSums(
+      form.parent,
+      t1,
+      nets.z1Re,
+      nets.z1Im,
+      nets.converterBus,
+      nets.converterIPu,
+    );
+    for (let k = 0; k < n; k++) eff[k] = eff[k]! + sums[k]!;
     tree = { t1, t2, t0 };
   } else {
     const d1 = denseImpedance(form, nets.z1Re, nets.z1Im, nets.y1Re, nets.y1Im);
@@ -218,22 +216,6 @@ export function faultCurrents(
     ipKa: kappa * Math.SQRT2 * ik3 * kaPerPu,
     rToX,
   };
-}
-
-/** Adds |Z(1)kj|·I to eff[k] for every bus k (column j of the tree's impedance matrix). */
-function addTransferMagnitudes(
-  form: FeederForm,
-  t: TreeThevenin,
-  zRe: Float64Array,
-  zIm: Float64Array,
-  j: number,
-  iPu: number,
-  eff: Float64Array,
-): void {
-  const n = form.nBus;
-  const vRe = new Float64Array(n), vIm = new Float64Array(n);
-  treeColumn(form.parent, t, zRe, zIm, j, vRe, vIm);
-  for (let k = 0; k < n; k++) eff[k] = eff[k]! + Math.hypot(vRe[k]!, vIm[k]!) * iPu;
 }
 
 /**

@@ -62,3 +62,44 @@ function divide(
   vRe[to] = (vRe[from]! * dr + vIm[from]! * di) / d2;
   vIm[to] = (vIm[from]! * dr - vRe[from]! * di) / d2;
 }
+
+/**
+ * Σj |Zkj|·Ij for every bus k at once, in O(n): |Zkj| is |Zth,j| times the magnitudes of
+ * the voltage dividers along the path from j to k (each depends only on the branch and the
+ * direction it is crossed in), so the sums follow from one pass up (what reaches each bus
+ * from its own subtree) and one down (what reaches it from outside).
+ */
+export function transferMagnitudeSums(
+  parent: Int32Array,
+  t: TreeThevenin,
+  zRe: Float64Array,
+  zIm: Float64Array,
+  bus: Int32Array,
+  current: Float64Array,
+): Float64Array {
+  const n = t.zthRe.length;
+  const up = new Float64Array(n), down = new Float64Array(n);
+  const fUp = new Float64Array(n), fDown = new Float64Array(n);
+  for (let i = 0; i < bus.length; i++) {
+    const j = bus[i]!;
+    if (Number.isFinite(t.zthRe[j]!)) {
+      up[j] = up[j]! + current[i]! * Math.hypot(t.zthRe[j]!, t.zthIm[j]!);
+    }
+  }
+  for (let k = 1; k < n; k++) {
+    const p = parent[k]!, zr = zRe[k - 1]!, zi = zIm[k - 1]!;
+    if (!Number.isFinite(zr) || !Number.isFinite(zi)) continue; // open: factors stay 0
+    const yr = t.ySubRe[p]! + t.yUpRe[p]! - t.yBranchRe[k]!,
+      yi = t.ySubIm[p]! + t.yUpIm[p]! - t.yBranchIm[k]!;
+    fUp[k] = 1 / Math.hypot(1 + zr * yr - zi * yi, zr * yi + zi * yr);
+    const sr = t.ySubRe[k]!, si = t.ySubIm[k]!;
+    fDown[k] = 1 / Math.hypot(1 + zr * sr - zi * si, zr * si + zi * sr);
+  }
+  for (let k = n - 1; k > 0; k--) up[parent[k]!] = up[parent[k]!]! + up[k]! * fUp[k]!;
+  for (let k = 1; k < n; k++) {
+    const p = parent[k]!;
+    down[k] = (down[p]! + up[p]! - up[k]! * fUp[k]!) * fDown[k]!;
+  }
+  for (let k = 0; k < n; k++) up[k] = up[k]! + down[k]!;
+  return up;
+}
