@@ -2,6 +2,7 @@
  * Study of one feeder: every case's load flow, the companion no-generation solves the
  * voltage-change check needs, and the checks. Returns plain data for the report stage.
  */
+import { roundTo } from "../model/round_to.ts";
 import type { Diagnostic } from "../model/diagnostic.ts";
 import { BRANCH_LINE, BRANCH_SWITCH, type FeederForm } from "../model/feeder_form.ts";
 import type { LoadFlowCase, LoadFlowOptions, LoadFlowResult } from "../solve/load_flow_types.ts";
@@ -109,12 +110,6 @@ export interface FeederStudy extends CasesStudy {
   readonly devices: readonly DeviceCurves[];
 }
 
-const round = (v: number, digits: number) => {
-  const f = 10 ** digits;
-  const r = Math.round(v * f) / f;
-  return Object.is(r, -0) ? 0 : r;
-};
-
 export function studyFeeder(form: FeederForm, settings: StudySettings): FeederStudy {
   const cases = studyCases(form, settings);
   const faults = cases.status === "studied" && settings.faults.enabled
@@ -162,15 +157,15 @@ export function studyCases(form: FeederForm, settings: CaseSettings): CasesStudy
       converged: res.converged,
       iterations: res.iterations,
       residualPu: res.residualPu,
-      demandKw: round(sum(res.loadPKw), 3),
-      generationKw: round(sum(res.genPKw), 3),
-      generationKvar: round(sum(res.genQKvar), 3),
-      sourcePKw: round(res.sourcePKw, 3),
-      sourceQKvar: round(res.sourceQKvar, 3),
-      lossesKw: round(res.lossesKw, 3),
-      lossesKvar: round(res.lossesKvar, 3),
-      vMinPu: round(arrayMin(res.vMagPu), 6),
-      vMaxPu: round(arrayMax(res.vMagPu), 6),
+      demandKw: roundTo(sum(res.loadPKw), 3),
+      generationKw: roundTo(sum(res.genPKw), 3),
+      generationKvar: roundTo(sum(res.genQKvar), 3),
+      sourcePKw: roundTo(res.sourcePKw, 3),
+      sourceQKvar: roundTo(res.sourceQKvar, 3),
+      lossesKw: roundTo(res.lossesKw, 3),
+      lossesKvar: roundTo(res.lossesKvar, 3),
+      vMinPu: roundTo(arrayMin(res.vMagPu), 6),
+      vMaxPu: roundTo(arrayMax(res.vMagPu), 6),
       maxLoadingPercent: 0,
       maxDgChangePercent: null,
       sourceQShiftKvar: null,
@@ -184,7 +179,7 @@ export function studyCases(form: FeederForm, settings: CaseSettings): CasesStudy
       continue;
     }
     const loading = branchLoadingPercent(form, res);
-    outcome.maxLoadingPercent = round(arrayMax(loading, 0), 3);
+    outcome.maxLoadingPercent = roundTo(arrayMax(loading, 0), 3);
     if (settings.checks.voltageBand) findings.push(...checkVoltageBand(form, res, settings.limits));
     findings.push(...checkFlows(form, res, settings.limits, settings.checks));
 
@@ -206,8 +201,8 @@ export function studyCases(form: FeederForm, settings: CaseSettings): CasesStudy
           res.genPKw,
           res.genQKvar,
         );
-        outcome.maxDgChangePercent = round(arrayMaxAbs(change), 4);
-        outcome.sourceQShiftKvar = round(res.sourceQKvar - base.sourceQKvar, 3);
+        outcome.maxDgChangePercent = roundTo(arrayMaxAbs(change), 4);
+        outcome.sourceQShiftKvar = roundTo(res.sourceQKvar - base.sourceQKvar, 3);
         if (settings.checks.voltageChange) {
           findings.push(...checkVoltageChange(form, c.id, change, parts, settings.limits));
         }
@@ -217,12 +212,12 @@ export function studyCases(form: FeederForm, settings: CaseSettings): CasesStudy
       outcome.buses = form.busIds.map((id, k) => ({
         id,
         vnKv: form.vnKv[k]!,
-        distanceKm: round(form.distanceKm[k]!, 4),
-        vPu: round(res.vMagPu[k]!, 6),
-        angleDeg: round(Math.atan2(res.vImPu[k]!, res.vRePu[k]!) * 180 / Math.PI, 4),
-        dgChangePercent: change === null ? null : round(change[k]!, 4),
-        rpPercent: parts === null ? null : round(100 * parts.rpPu[k]!, 4),
-        xqPercent: parts === null ? null : round(100 * parts.xqPu[k]!, 4),
+        distanceKm: roundTo(form.distanceKm[k]!, 4),
+        vPu: roundTo(res.vMagPu[k]!, 6),
+        angleDeg: roundTo(Math.atan2(res.vImPu[k]!, res.vRePu[k]!) * 180 / Math.PI, 4),
+        dgChangePercent: change === null ? null : roundTo(change[k]!, 4),
+        rpPercent: parts === null ? null : roundTo(100 * parts.rpPu[k]!, 4),
+        xqPercent: parts === null ? null : roundTo(100 * parts.xqPu[k]!, 4),
       }));
     }
     if (settings.output.branchResults) {
@@ -235,12 +230,12 @@ export function studyCases(form: FeederForm, settings: CaseSettings): CasesStudy
           : "transformer",
         from: form.busIds[form.branchFrom[b]!]!,
         to: form.busIds[form.branchTo[b]!]!,
-        pFromKw: round(res.pFromKw[b]!, 3),
-        qFromKvar: round(res.qFromKvar[b]!, 3),
-        pToKw: round(res.pToKw[b]!, 3),
-        qToKvar: round(res.qToKvar[b]!, 3),
-        iA: round(res.iA[b]!, 3),
-        loadingPercent: round(loading[b]!, 3),
+        pFromKw: roundTo(res.pFromKw[b]!, 3),
+        qFromKvar: roundTo(res.qFromKvar[b]!, 3),
+        pToKw: roundTo(res.pToKw[b]!, 3),
+        qToKvar: roundTo(res.qToKvar[b]!, 3),
+        iA: roundTo(res.iA[b]!, 3),
+        loadingPercent: roundTo(loading[b]!, 3),
       }));
     }
     cases.push(outcome);

@@ -4,6 +4,7 @@
  * regulation, reconductoring, a new transformer or switching device. Each candidate is a
  * changed copy of the form with its bill of quantities; design_remedies.ts checks it.
  */
+import { roundTo } from "../model/round_to.ts";
 import { BRANCH_LINE, type FeederForm, GENERATOR_INDUCTION } from "../model/feeder_form.ts";
 import type { ReactiveCurve, ReactiveMode } from "../model/network.ts";
 import type { CatalogueConductor, CostTable, RemedyOptions } from "./cost_table.ts";
@@ -87,8 +88,8 @@ export function* candidatesFor(
 }
 
 function item(what: string, quantity: number, unit: string, unitCost: number): RemedyItem {
-  const q = round(quantity, 3); // the cost follows the quantity as shown
-  return { what, quantity: q, unit, unitCost, cost: round(q * unitCost, 2) };
+  const q = roundTo(quantity, 3); // the cost follows the quantity as shown
+  return { what, quantity: q, unit, unitCost, cost: roundTo(q * unitCost, 2) };
 }
 
 /** Generators whose reactive mode can be changed to absorb: not induction, not already absorbing. */
@@ -148,7 +149,7 @@ function* tapCandidates(ctx: CandidateContext, direction: 1 | -1): Generator<Can
     if (!t.tap.onLoad || c === undefined || f.branchTo[t.branch]! >= f.substationBusCount) continue;
     const step = Math.max(c.bandPu / 2, t.tap.stepPercent / 100);
     for (let k = 1; k <= 4; k++) {
-      const v = round(c.vSetPu + direction * k * step, 4);
+      const v = roundTo(c.vSetPu + direction * k * step, 4);
       yield {
         kind: "tap_setpoint",
         description: `${
@@ -243,7 +244,7 @@ function describeRebuild(
     const shown = ids.length > 6
       ? `${ids.slice(0, 6).join(", ")} and ${ids.length - 6} more`
       : ids.join(", ");
-    return `${round(km, 3)} km with ${name} (${shown})`;
+    return `${roundTo(km, 3)} km with ${name} (${shown})`;
   });
   return `Rebuild line: ${parts.join("; ")}`;
 }
@@ -373,11 +374,6 @@ function* switchgearCandidates(need: NeedDraft, ctx: CandidateContext): Generato
       form,
     };
   }
-}
-
-function round(v: number, digits: number): number {
-  const f = 10 ** digits;
-  return Math.round(v * f) / f;
 }
 
 /**

@@ -5,6 +5,7 @@
  * its findings as evidence, names the worst one and counts the customers it touches.
  * Warnings and information do not make needs. Later studies add their codes to NEED_RULES.
  */
+import { roundTo } from "../model/round_to.ts";
 import { BRANCH_LINE, BRANCH_TRANSFORMER, type FeederForm } from "../model/feeder_form.ts";
 import type { Finding } from "../checks/finding.ts";
 import type { Need, NeedClass, NeedEvidence, NeedKind } from "./need.ts";
@@ -123,7 +124,7 @@ export function classifyNeeds(form: FeederForm, findings: readonly Finding[]): N
       needClass: NEED_RULES[worst.code]!.needClass,
       summary: summarize(kind, worst, places.size, cases),
       worst: evidenceOf(worst),
-      excessPercent: round(excessPercent(worst), 3),
+      excessPercent: roundTo(excessPercent(worst), 3),
       evidence: list.map(evidenceOf),
       customers,
     });
@@ -136,7 +137,7 @@ function evidenceOf(f: Finding): NeedEvidence {
     code: f.code,
     caseId: f.caseId,
     where: f.where,
-    value: round(f.value, 6),
+    value: roundTo(f.value, 6),
     limit: f.limit,
     unit: f.unit,
   };
@@ -158,9 +159,4 @@ function summarize(kind: NeedKind, worst: Finding, places: number, cases: string
   const more = places > 1 ? ` and ${places - 1} more place(s)` : "";
   return `${WHAT[kind]}: worst ${v} ${worst.unit} at ${at} against ${worst.limit} ${worst.unit}` +
     `${more}, in case(s) ${cases.join(", ")}`;
-}
-
-function round(v: number, digits: number): number {
-  const f = 10 ** digits;
-  return Math.round(v * f) / f;
 }

@@ -11,6 +11,7 @@
  * voltage or of rating) of the limit from inside, or the bracket is 1e-4 of the connected
  * generation wide. The demand-only solve and the per-unit preparation are done once.
  */
+import { roundTo } from "../model/round_to.ts";
 import type { FeederForm } from "../model/feeder_form.ts";
 import { prepareLoadFlow } from "../solve/prepare_load_flow.ts";
 import { solveLoadFlow } from "../solve/solve_load_flow.ts";
@@ -68,9 +69,9 @@ export function computeDgHeadroom(
   const connectedMw = one.generationKw / 1000;
   const result = (factor: number, binding: DgHeadroom["binding"]): DgHeadroom => ({
     caseId: lfCase!.id,
-    connectedMw: round(connectedMw),
-    factor: round(factor),
-    headroomMw: round((factor - 1) * connectedMw),
+    connectedMw: roundTo(connectedMw, 4),
+    factor: roundTo(factor, 4),
+    headroomMw: roundTo((factor - 1) * connectedMw, 4),
     binding,
   });
   let lo = 0, fLo = marginOf(base).margin;
@@ -125,8 +126,4 @@ export function computeDgHeadroom(
     slow = hi - lo > 0.9 * width ? slow + 1 : 0;
   }
   return result(lo, { code: atHi.code, where: atHi.where });
-}
-
-function round(v: number): number {
-  return Math.round(v * 1e4) / 1e4;
 }

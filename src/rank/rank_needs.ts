@@ -13,6 +13,7 @@
  * Ties, in both: class order, larger excess, more customers, feeder id, then need kind, so
  * the order is total and does not depend on the order the feeders finished in.
  */
+import { roundTo } from "../model/round_to.ts";
 import type { RankingOptions } from "./cost_table.ts";
 import type { Need, RankedNeed } from "./need.ts";
 
@@ -28,7 +29,7 @@ export function rankNeeds(needs: readonly Need[], options: RankingOptions): Rank
   let unknownCost = 1;
   for (const n of needs) if (n.remedy !== null) unknownCost = Math.max(unknownCost, n.remedy.cost);
   const scored = needs.map((need) => {
-    const benefit = round(needBenefit(need, options));
+    const benefit = roundTo(needBenefit(need, options), 6);
     const cost = Math.max(1, need.remedy?.cost ?? unknownCost);
     const perCost = benefit / cost;
     const score = options.method === "weighted"
@@ -37,8 +38,8 @@ export function rankNeeds(needs: readonly Need[], options: RankingOptions): Rank
     return {
       need,
       benefit,
-      benefitPerCost: need.remedy === null ? null : round(perCost),
-      score: round(score),
+      benefitPerCost: need.remedy === null ? null : roundTo(perCost, 6),
+      score: roundTo(score, 6),
       classAt: classIndex.get(need.needClass) ?? options.classOrder.length,
     };
   });
@@ -62,8 +63,4 @@ export function rankNeeds(needs: readonly Need[], options: RankingOptions): Rank
 
 function cmp(a: string, b: string): number {
   return a < b ? -1 : a > b ? 1 : 0;
-}
-
-function round(v: number): number {
-  return Math.round(v * 1e6) / 1e6;
 }

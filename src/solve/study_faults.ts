@@ -13,6 +13,7 @@
  * The peak current takes κ = 1.02 + 0.98·e^(−3R/X) from the positive-sequence impedance at
  * the fault (on meshed feeders 1.15·κ, at most 2.0; method B [memory]).
  */
+import { roundTo } from "../model/round_to.ts";
 import type { FeederForm } from "../model/feeder_form.ts";
 import { type Diagnostic, makeDiagnostic } from "../model/diagnostic.ts";
 import { invertComplexMatrix } from "../model/_complex_matrix.ts";
@@ -393,14 +394,14 @@ function capacitiveEarthFaultA(form: FeederForm): Float64Array {
 
 /** The study with its figures rounded for the result files: 1 A, 1e-6 for ratios, 1e-4 %. */
 export function roundFaultStudy(f: FaultStudy): FaultStudy {
-  const ka = (v: number) => round(v, 6);
+  const ka = (v: number) => roundTo(v, 6);
   const cur = (c: BusFaultCurrents): BusFaultCurrents => ({
     ik3Ka: ka(c.ik3Ka),
     ik2Ka: ka(c.ik2Ka),
     ik1Ka: c.ik1Ka === null ? null : ka(c.ik1Ka),
     ikE2EKa: c.ikE2EKa === null ? null : ka(c.ikE2EKa),
     ipKa: ka(c.ipKa),
-    rToX: round(c.rToX, 6),
+    rToX: roundTo(c.rToX, 6),
   });
   return {
     buses: f.buses.map((b) => ({
@@ -408,10 +409,10 @@ export function roundFaultStudy(f: FaultStudy): FaultStudy {
       max: cur(b.max),
       maxWithoutGeneration: cur(b.maxWithoutGeneration),
       min: cur(b.min),
-      generationIncreasePercent: round(b.generationIncreasePercent, 4),
+      generationIncreasePercent: roundTo(b.generationIncreasePercent, 4),
       capacitiveEarthFaultA: b.capacitiveEarthFaultA === null
         ? null
-        : round(b.capacitiveEarthFaultA, 3),
+        : roundTo(b.capacitiveEarthFaultA, 3),
     })),
     devices: f.devices.map((d) => ({
       ...d,
@@ -422,10 +423,4 @@ export function roundFaultStudy(f: FaultStudy): FaultStudy {
     })),
     diagnostics: f.diagnostics,
   };
-}
-
-function round(v: number, digits: number): number {
-  const f = 10 ** digits;
-  const r = Math.round(v * f) / f;
-  return Object.is(r, -0) ? 0 : r;
 }
