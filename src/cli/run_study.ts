@@ -33,6 +33,7 @@ import { type FeederRecord, openRunStore, type RunStore } from "./run_store.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
 import { partitionNetwork } from "./partition_network.ts";
 import { VERSION } from "./version.ts";
+import { buildId } from "./build_id.ts";
 import { writeRunReports } from "./write_run_reports.ts";
 import type { RankedNeed } from "../rank/need.ts";
 import type { Shard as ShardOf } from "../pipeline/shard.ts";
@@ -131,9 +132,10 @@ export async function runStudy(
   options: StudyRunOptions = DEFAULT_STUDY_RUN_OPTIONS,
 ): Promise<StudyRun> {
   const startedAt = new Date().toISOString();
-  const [inputHash, configHash] = await Promise.all([
+  const [inputHash, configHash, build] = await Promise.all([
     hashNetworkFolder(networkDir),
     hashPipelineConfig(config),
+    buildId(),
   ]);
   const store: RunStore | undefined = options.storePath === undefined
     ? undefined
@@ -147,7 +149,7 @@ export async function runStudy(
           `No earlier run of "${outDir}" is in the run store; run the whole study into it first`,
         );
       }
-      if (previous.configHash !== configHash || previous.version !== VERSION) {
+      if (previous.configHash !== configHash || previous.version !== build) {
         throw new StudyInputError(
           `The run in "${outDir}" was made with another pipeline or tool version; ` +
             "rerun the whole study instead of single feeders",
@@ -160,7 +162,7 @@ export async function runStudy(
       outDir: outAbs,
       inputHash,
       configHash,
-      version: VERSION,
+      version: build,
       startedAt,
     });
     const t0 = performance.now();
@@ -187,7 +189,7 @@ export async function runStudy(
       const keep = (r: FeederRecord) => {
         records.set(r.feederId, r);
         if (store !== undefined && runId !== undefined) {
-          store.recordFeeder(runId, configHash, VERSION, r);
+          store.recordFeeder(runId, configHash, build, r);
         }
       };
       const only = options.onlyFeeders === undefined
@@ -242,7 +244,7 @@ export async function runStudy(
           const earlier = only !== undefined && !only.has(id.toLowerCase())
             ? previous?.feeders.get(id)
             : only === undefined && useCache
-            ? store!.findCached(id, hash, configHash, VERSION)
+            ? store!.findCached(id, hash, configHash, build)
             : undefined;
           const text = earlier === undefined ? undefined : await readIfPresent(earlier.resultFile);
           if (earlier !== undefined && text !== undefined) {
