@@ -21,7 +21,8 @@ type Point = { series: string; km: number; ka: number; bus: string };
 
 /** Per series, the lowest and highest current in each of PROFILE_BINS distance bins. */
 function binExtremes(values: readonly Point[]): Point[] {
-  const kmMax = Math.max(0, ...values.map((v) => v.km));
+  let kmMax = 0;
+  for (const v of values) kmMax = Math.max(kmMax, v.km);
   const width = kmMax > 0 ? kmMax / PROFILE_BINS : 1;
   const keep = new Map<string, { lo: Point; hi: Point }>();
   for (const v of values) {
@@ -105,9 +106,11 @@ export async function renderFaultLevels(file: FeederFile, idPrefix: string): Pro
   return html`
     ${svg === null
       ? ""
-      : html`<figure><figcaption>Initial short-circuit current at every bus against its distance from the source (IEC 60909-0, equivalent voltage source).</figcaption>${
-        raw(svg)
-      }</figure>`}
+      : html`<figure><figcaption>Initial short-circuit current at every bus against its distance from the source (IEC 60909-0, equivalent voltage source)${
+        binned
+          ? `; the feeder has more than ${PROFILE_DETAIL_BUSES} buses, so each current shows its lowest and highest value in each of ${PROFILE_BINS} distance bins`
+          : ""
+      }.</figcaption>${raw(svg)}</figure>`}
     ${rows.length === 0 ? "" : html`
       <table class="data">
         <thead>
@@ -130,7 +133,7 @@ export async function renderFaultLevels(file: FeederFile, idPrefix: string): Pro
         class="note">${String(
           earthFault.length,
         )} bus(es) have no earth path (isolated or resonant neutral): their capacitive earth-fault current from this feeder's lines is up to ${formatNumber(
-          Math.max(...earthFault.map((b) => b.capacitiveEarthFaultA!)),
+          earthFault.reduce((m, b) => Math.max(m, b.capacitiveEarthFaultA!), 0),
           1,
         )} A.</p>
     `}

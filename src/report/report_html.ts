@@ -112,9 +112,11 @@ function faultMarks(file: FeederFile): FaultMark[] {
   if (f === undefined || f === null || f.buses.length === 0) return [];
   const own = f.buses.filter((b) => b.id !== f.buses[0]!.id);
   const rows = own.length > 0 ? own : f.buses;
-  const ka = (xs: (number | null)[], pick: (...v: number[]) => number) => {
-    const v = xs.filter((x): x is number => x !== null && x > 0);
-    return v.length === 0 ? null : pick(...v);
+  // A loop, not a spread: a feeder may have 100,000 buses.
+  const ka = (xs: (number | null)[], pick: (a: number, b: number) => number) => {
+    let out: number | null = null;
+    for (const x of xs) if (x !== null && x > 0) out = out === null ? x : pick(out, x);
+    return out;
   };
   const marks: FaultMark[] = [];
   const max3 = ka(rows.map((b) => b.max.ik3Ka), Math.max);
