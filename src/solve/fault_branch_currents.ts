@@ -40,6 +40,8 @@ export interface BranchFaultCurrents {
   readonly iKa: Float64Array;
   /** +1 away from the source (towards the branch's far bus), −1 towards it, 0 no current. */
   readonly direction: Int8Array;
+  /** Residual current 3·I0 per tree branch, kA (zero for a three-phase fault). */
+  readonly residualKa: Float64Array;
 }
 
 /** The fault model of a radial feeder for one condition; null for a meshed feeder. */
@@ -122,14 +124,16 @@ export function branchCurrentsForFault(
     outRe,
     outIm,
   );
+  const resRe = new Float64Array(n), resIm = new Float64Array(n);
   if (earth) {
     const zero = new Float64Array(n);
-    for (
-      const [t, z, y] of [
-        [t2, [nets.z1Re, nets.z1Im], [nets.y2Re, nets.y2Im]],
-        [t0, [nets.z0Re, nets.z0Im], [nets.y0Re, nets.y0Im]],
-      ] as const
-    ) {
+    const seq = (
+      t: TreeThevenin,
+      z: readonly [Float64Array, Float64Array],
+      y: readonly [Float64Array, Float64Array],
+      re: Float64Array,
+      im: Float64Array,
+    ) =>
       addSequence(
         form.parent,
         t,
@@ -146,23 +150,28 @@ export function branchCurrentsForFault(
         zero,
         col,
         colIm,
-        outRe,
-        outIm,
+        re,
+        im,
       );
-    }
+    seq(t2, [nets.z1Re, nets.z1Im], [nets.y2Re, nets.y2Im], outRe, outIm);
+    seq(t0, [nets.z0Re, nets.z0Im], [nets.y0Re, nets.y0Im], outRe, outIm);
+    // The zero sequence alone, for the residual current 3·I0 earth elements measure.
+    seq(t0, [nets.z0Re, nets.z0Im], [nets.y0Re, nets.y0Im], resRe, resIm);
   }
   const iKa = new Float64Array(Math.max(0, n - 1));
+  const residualKa = new Float64Array(Math.max(0, n - 1));
   const direction = new Int8Array(Math.max(0, n - 1));
   const scale = Math.hypot(i1r, i1i) * 1e-9;
   for (let b = 1; b < n; b++) {
     const mag = Math.hypot(outRe[b]!, outIm[b]!);
     iKa[b - 1] = mag / (Math.sqrt(3) * form.vnKv[b]!);
+    residualKa[b - 1] = 3 * Math.hypot(resRe[b]!, resIm[b]!) / (Math.sqrt(3) * form.vnKv[b]!);
     // Direction against the fault current's phase at the fault.
     const dot = outRe[b]! * i1r + outIm[b]! * i1i;
     direction[b - 1] = mag <= scale ? 0 : dot > 0 ? 1 : -1;
   }
   const faultPu = (earth ? 3 : 1) * Math.hypot(i1r, i1i);
-  return { faultKa: faultPu / (Math.sqrt(3) * form.vnKv[k]!), iKa, direction };
+  return { faultKa: faultPu / (Math.sqrt(3) * form.vnKv[k]!), iKa, direction, residualKa };
 }
 
 /**

@@ -93,3 +93,18 @@ Deno.test("branchCurrentsForFault() equals the full impedance matrix on random f
   }
   assertEquals(compared, 15);
 });
+
+Deno.test("branchCurrentsForFault() gives the residual current of a line-to-earth fault on the path", async () => {
+  // One earthed source and a line: the whole fault current returns through earth, so on the
+  // path the residual 3·I0 equals the phase current, which equals I″k1.
+  const form = await formOfTables(twoBusFeeder({ rOhm: 2, xOhm: 3 }));
+  const model = prepareFaultModel(form, S, 1, "max")!;
+  const k = form.busIds.indexOf("B2");
+  const r = branchCurrentsForFault(model, k, "line_to_earth");
+  const study = studyFaults(form, S, 1);
+  assert(Math.abs(r.faultKa - study.buses[k]!.max.ik1Ka!) < 1e-12);
+  for (let b = 0; b < form.nBranch; b++) {
+    assert(Math.abs(r.residualKa[b]! - r.faultKa) < 1e-9 * r.faultKa);
+    assert(Math.abs(r.iKa[b]! - r.faultKa) < 1e-9 * r.faultKa);
+  }
+});
