@@ -68,7 +68,7 @@ export function checkProtection(
   const withGeneration = form.generators.n > 0;
   const types: FaultType[] = ["three_phase", "line_to_earth"];
   const where = (r: FaultResponse, cond: Condition) =>
-    `${r.type.replace("_", "-")} fault at bus "${form.busIds[r.bus]}" (${cond}, ${
+    `${r.type.replaceAll("_", " ")} fault at bus "${form.busIds[r.bus]}" (${cond}, ${
       (r.faultKa * 1000).toFixed(0)
     } A)`;
   const secs = (t: number) => (Number.isFinite(t) ? `${t.toFixed(2)} s` : "no operation");
