@@ -62,7 +62,7 @@ Deno.test("gradeTimeMultipliers() agrees with a brute-force search on a three-re
   for (
     const [id, grid] of [["R3", bestTms[2]!], ["R2", bestTms[1]!], ["R1", bestTms[0]!]] as const
   ) {
-    const x = r.tms[id]!;
+    const x: number = r.tms[id]!;
     assert(x <= grid + 1e-9 && grid - x <= 0.003, `${id}: ${x} vs ${grid}`);
   }
   // Total primary time no worse than the grid's best (the backup term adds under 0.1 %).
