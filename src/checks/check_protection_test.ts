@@ -9,46 +9,13 @@
  */
 import { deepStrictEqual as assertEquals, ok as assert } from "node:assert/strict";
 import { formOfTables } from "../../tests/fixtures/small_feeders.ts";
+import { twoRelayFeeder, type TwoRelayOptions } from "../../tests/fixtures/protection_feeders.ts";
 import { DEFAULT_FAULT_SETTINGS } from "../solve/fault_settings.ts";
 import { DEFAULT_PROTECTION_SETTINGS } from "../solve/protection_settings.ts";
 import { checkProtection } from "./check_protection.ts";
 
-interface Opts {
-  r1Tms?: number;
-  r2?: boolean;
-  r2Direction?: string;
-  generatorAt?: string;
-  generatorKva?: number;
-  skMva?: number;
-}
-
-function feeder(o: Opts): Record<string, string> {
-  const files: Record<string, string> = {
-    "buses.csv": "id,nominal_voltage [kV],feeder\nS,20,\nB1,20,F\nB2,20,F\nB3,20,F\nB4,20,F\n",
-    "grid_sources.csv":
-      "id,bus,nominal_voltage [kV],sc_power_max [MVA],sc_power_min [MVA],r_to_x,earthing\n" +
-      `Q,S,20,${o.skMva ?? 200},${0.75 * (o.skMva ?? 200)},0.1,solid\n`,
-    "line_types.csv":
-      "id,construction,r1 [ohm/km],x1 [ohm/km],r0 [ohm/km],x0 [ohm/km],ampacity [A]\nOH,overhead,0.2,0.35,0.5,1.2,400\n",
-    "lines.csv": "id,from,to,type,length [km]\nL1,B1,B2,OH,5\nL2,B3,B4,OH,5\n",
-    "switches.csv":
-      "id,from,to,kind,heads_feeder,rated_current [A],breaking_current [kA]\nCB1,S,B1,breaker,F,630,16\nCB2,B2,B3,breaker,,630,16\n",
-    "relay_stages.csv":
-      "relay,device,stage,element,characteristic,pickup [A],time_multiplier,direction\n" +
-      `R1,CB1,1,phase,iec_standard_inverse,400,${o.r1Tms ?? 0.3},\n` +
-      (o.r2 === false
-        ? ""
-        : `R2,CB2,1,phase,iec_standard_inverse,300,0.1,${o.r2Direction ?? ""}\n`),
-  };
-  if (o.generatorAt !== undefined) {
-    files["generators.csv"] =
-      "id,bus,kind,rated_power [kVA],active_power [kW],xd_subtransient [pu]\n" +
-      `SG,${o.generatorAt},synchronous,${o.generatorKva ?? 4000},${
-        0.9 * (o.generatorKva ?? 4000)
-      },0.15\n`;
-  }
-  return files;
-}
+type Opts = TwoRelayOptions;
+const feeder = twoRelayFeeder;
 
 async function findings(o: Opts) {
   const form = await formOfTables(feeder(o));

@@ -9,6 +9,7 @@
  */
 import { deepStrictEqual as assertEquals, ok as assert } from "node:assert/strict";
 import { formOfTables } from "../../tests/fixtures/small_feeders.ts";
+import { twoRelayFeeder } from "../../tests/fixtures/protection_feeders.ts";
 import { DEFAULT_FAULT_SETTINGS } from "./fault_settings.ts";
 import { prepareFaultModel } from "./fault_branch_currents.ts";
 import { protectiveDevices, simulateFaultProtection } from "./simulate_fault_protection.ts";
@@ -16,27 +17,11 @@ import { protectiveDevices, simulateFaultProtection } from "./simulate_fault_pro
 /** IEC standard inverse (REFERENCES.md C). */
 const si = (tms: number, pickupA: number, iA: number) => tms * 0.14 / ((iA / pickupA) ** 0.02 - 1);
 
-function feeder(o: { r2Direction?: string; generator?: boolean }): Record<string, string> {
-  const files: Record<string, string> = {
-    "buses.csv": "id,nominal_voltage [kV],feeder\nS,20,\nB1,20,F\nB2,20,F\nB3,20,F\nB4,20,F\n",
-    "grid_sources.csv":
-      "id,bus,nominal_voltage [kV],sc_power_max [MVA],sc_power_min [MVA],r_to_x,earthing\nQ,S,20,200,150,0.1,solid\n",
-    "line_types.csv":
-      "id,construction,r1 [ohm/km],x1 [ohm/km],r0 [ohm/km],x0 [ohm/km],ampacity [A]\nOH,overhead,0.2,0.35,0.5,1.2,400\n",
-    "lines.csv": "id,from,to,type,length [km]\nL1,B1,B2,OH,5\nL2,B3,B4,OH,5\n",
-    "switches.csv":
-      "id,from,to,kind,heads_feeder,rated_current [A],breaking_current [kA]\nCB1,S,B1,breaker,F,630,16\nCB2,B2,B3,breaker,,630,16\n",
-    "relay_stages.csv":
-      "relay,device,stage,element,characteristic,pickup [A],time_multiplier,direction\n" +
-      "R1,CB1,1,phase,iec_standard_inverse,400,0.3,\n" +
-      `R2,CB2,1,phase,iec_standard_inverse,300,0.1,${o.r2Direction ?? ""}\n`,
-  };
-  if (o.generator) {
-    files["generators.csv"] =
-      "id,bus,kind,rated_power [kVA],active_power [kW],xd_subtransient [pu]\nSG,B4,synchronous,4000,3500,0.15\n";
-  }
-  return files;
-}
+const feeder = (o: { r2Direction?: string; generator?: boolean }) =>
+  twoRelayFeeder({
+    ...(o.r2Direction === undefined ? {} : { r2Direction: o.r2Direction }),
+    ...(o.generator ? { generatorAt: "B4" } : {}),
+  });
 
 Deno.test("simulateFaultProtection() grades two relays for a far fault as the formulas say", async () => {
   const form = await formOfTables(feeder({}));
