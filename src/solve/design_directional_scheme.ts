@@ -72,14 +72,14 @@ function gradedStage(d: FormDevice): { relay: string; stage: RelayStage } | null
   return null;
 }
 
-export async function designDirectionalScheme(
+export function designDirectionalScheme(
   form: FeederForm,
   directional: ReadonlySet<string>,
   loadCurrentA: ReadonlyMap<string, number>,
   faults: FaultSettings,
   lvMaxKv: number,
   o: SchemeOptions = DEFAULT_SCHEME_OPTIONS,
-): Promise<SchemeResult> {
+): SchemeResult {
   const devices = protectiveDevices(form);
   const graded = devices.flatMap((d) => {
     const g = gradedStage(d);
@@ -169,7 +169,7 @@ export async function designDirectionalScheme(
       }
     }
   }
-  const result = await gradeTimeMultipliers({
+  const result = gradeTimeMultipliers({
     relays: graded.map((g) => ({ id: g.device.id, minTms: o.minTms, maxTms: o.maxTms })),
     pairs,
     intervalS: o.intervalS,

@@ -23,7 +23,7 @@ Deno.test("designDirectionalScheme() makes far-end generation coordinate on both
   );
   assertEquals([...directional], ["CB2"]);
   const load = new Map([["CB1", 150], ["CB2", 80]]); // invented peak load currents, A
-  const scheme = await designDirectionalScheme(form, directional, load, DEFAULT_FAULT_SETTINGS, 1);
+  const scheme = designDirectionalScheme(form, directional, load, DEFAULT_FAULT_SETTINGS, 1);
   assert(scheme.status === "proposed");
   const r2 = scheme.settings.find((s) => s.device === "CB2")!;
   assertEquals(r2.direction, "forward");
@@ -55,7 +55,7 @@ Deno.test("designDirectionalScheme() makes far-end generation coordinate on both
 
 Deno.test("designDirectionalScheme() reports a relay that cannot tell load from fault", async () => {
   const form = await formOfTables(twoRelayFeeder({ generatorAt: "B4" }));
-  const scheme = await designDirectionalScheme(
+  const scheme = designDirectionalScheme(
     form,
     new Set(["CB2"]),
     new Map([["CB2", 5000]]),

@@ -42,7 +42,8 @@ export type GradingResult =
   }
   | { readonly status: "infeasible"; readonly reason: string };
 
-let solver: Promise<Highs> | undefined;
+/** Loaded once per isolate (about 0.1 s), so solving is synchronous wherever it is needed. */
+const solver: Highs = await highsLoader();
 
 /** The curve factor k of an inverse-time stage at a current (t = TMS·k). */
 export function curveFactorS(
@@ -54,7 +55,7 @@ export function curveFactorS(
   return m > 1 ? curve.a / (m ** curve.p - 1) + curve.b : Infinity;
 }
 
-export async function gradeTimeMultipliers(problem: GradingProblem): Promise<GradingResult> {
+export function gradeTimeMultipliers(problem: GradingProblem): GradingResult {
   const index = new Map(problem.relays.map((r, i) => [r.id, i]));
   const pairs = problem.pairs.filter((p) =>
     Number.isFinite(p.primaryFactorS) && Number.isFinite(p.backupFactorS) &&
@@ -87,8 +88,7 @@ export async function gradeTimeMultipliers(problem: GradingProblem): Promise<Gra
     ...bounds,
     "End",
   ].join("\n");
-  solver ??= highsLoader();
-  const result = (await solver).solve(lp);
+  const result = solver.solve(lp);
   if (result.Status !== "Optimal") {
     return {
       status: "infeasible",

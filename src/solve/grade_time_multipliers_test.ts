@@ -23,8 +23,8 @@ const pairs = [
   pair("R2", "R1", 2000),
 ];
 
-Deno.test("gradeTimeMultipliers() agrees with a brute-force search on a three-relay chain", async () => {
-  const r = await gradeTimeMultipliers({ relays, pairs, intervalS: 0.3 });
+Deno.test("gradeTimeMultipliers() agrees with a brute-force search on a three-relay chain", () => {
+  const r = gradeTimeMultipliers({ relays, pairs, intervalS: 0.3 });
   assert(r.status === "optimal");
   // Brute force on a 0.001 grid: the smallest total primary time with every pair graded.
   const grid = (lo: number, hi: number) =>
@@ -74,9 +74,9 @@ Deno.test("gradeTimeMultipliers() agrees with a brute-force search on a three-re
   }
 });
 
-Deno.test("gradeTimeMultipliers() reports a pair no multipliers can grade", async () => {
+Deno.test("gradeTimeMultipliers() reports a pair no multipliers can grade", () => {
   // The backup's multiplier is capped so low that it can never wait 0.3 s behind the primary.
-  const r = await gradeTimeMultipliers({
+  const r = gradeTimeMultipliers({
     relays: [{ id: "A", minTms: 0.05, maxTms: 1 }, { id: "B", minTms: 0.05, maxTms: 0.1 }],
     pairs: [{ primary: "A", backup: "B", primaryFactorS: 2, backupFactorS: 2 }],
     intervalS: 0.3,
