@@ -11,6 +11,9 @@ import { formOfTables } from "../../tests/fixtures/small_feeders.ts";
 import { generateRandomFeeder } from "../../tests/fixtures/random_feeders.ts";
 import { DEFAULT_FAULT_SETTINGS } from "./fault_settings.ts";
 import { studyFaults } from "./study_faults.ts";
+import { TWO_FEEDERS } from "../../tests/fixtures/two_feeders.ts";
+import { validateFleet } from "../pipeline/validate_fleet.ts";
+import { memorySource } from "../ingest/read_network.ts";
 
 const S = DEFAULT_FAULT_SETTINGS;
 const close = (a: number, b: number, rel: number, what: string) =>
@@ -158,4 +161,17 @@ Deno.test("studyFaults() O(n) tree method equals the full impedance matrix on ra
     compared++;
   }
   assertEquals(compared, 25);
+});
+
+Deno.test("studyFaults() leaves out a meshed feeder above the matrix size limit, with a warning", async () => {
+  const forms = (await validateFleet(memorySource(TWO_FEEDERS))).value.forms;
+  const meshed = forms.find((f) => f.meshed)!;
+  const solved = studyFaults(meshed, S, 1);
+  assert(solved.buses.length === meshed.nBus && solved.diagnostics.length === 0);
+  const limited = studyFaults(meshed, { ...S, meshedMaxBuses: 2 }, 1);
+  assertEquals(limited.buses, []);
+  assertEquals(limited.diagnostics.map((d) => [d.code, d.severity]), [[
+    "fault.too_large",
+    "warning",
+  ]]);
 });
