@@ -15,10 +15,26 @@ import {
 } from "../rank/cost_table.ts";
 import { NEED_CLASSES, type NeedClass } from "../rank/need.ts";
 import { DEFAULT_FAULT_SETTINGS, type FaultSettings } from "../solve/fault_settings.ts";
+import {
+  DEFAULT_PROTECTION_SETTINGS,
+  type ProtectionSettings,
+} from "../solve/protection_settings.ts";
 
 const cost = z.number().min(0);
 const F = DEFAULT_FAULT_SETTINGS;
 const cFactor = z.number().min(0.8).max(1.2);
+
+const P = DEFAULT_PROTECTION_SETTINGS;
+
+export const protectionSettingsSchema: z.ZodType<ProtectionSettings, unknown> = z.strictObject({
+  enabled: z.boolean().default(P.enabled),
+  coordinationIntervalS: z.number().gt(0).max(2).default(P.coordinationIntervalS),
+  sensitivityFactor: z.number().min(1).max(5).default(P.sensitivityFactor),
+  neighbourClearingS: z.number().gt(0).max(10).default(P.neighbourClearingS),
+  loadMargin: z.number().min(1).max(5).default(P.loadMargin),
+  minTms: z.number().gt(0).max(10).default(P.minTms),
+  maxTms: z.number().gt(0).max(10).default(P.maxTms),
+});
 
 export const faultSettingsSchema: z.ZodType<FaultSettings, unknown> = z.strictObject({
   enabled: z.boolean().default(F.enabled),
@@ -57,6 +73,8 @@ export const costTableSchema: z.ZodType<CostTable, unknown> = z.strictObject({
   transformerFixed: cost.default(C.transformerFixed),
   transformerPerMva: cost.default(C.transformerPerMva),
   switchgearReplacement: cost.default(C.switchgearReplacement),
+  directionalElement: cost.default(C.directionalElement),
+  protectionSettingPerRelay: cost.default(C.protectionSettingPerRelay),
   conductors: z.array(conductorSchema).default(() => C.conductors.map((c) => ({ ...c }))),
 });
 

@@ -39,10 +39,15 @@ import {
 import {
   costTableSchema,
   faultSettingsSchema,
+  protectionSettingsSchema,
   rankingOptionsSchema,
   remedyOptionsSchema,
 } from "./_ranking_schema.ts";
 import { DEFAULT_FAULT_SETTINGS, type FaultSettings } from "../solve/fault_settings.ts";
+import {
+  DEFAULT_PROTECTION_SETTINGS,
+  type ProtectionSettings,
+} from "../solve/protection_settings.ts";
 
 export type { VoltageRange };
 
@@ -75,6 +80,7 @@ export interface PipelineOutput {
 /** A parsed pipeline config: every field filled, defaults included. */
 export interface PipelineConfig {
   readonly faults: FaultSettings;
+  readonly protection: ProtectionSettings;
   readonly costs: CostTable;
   readonly remedies: RemedyOptions;
   readonly ranking: RankingOptions;
@@ -146,6 +152,7 @@ export const DEFAULT_PIPELINE: PipelineConfig = {
   },
   output: { busResults: true, branchResults: true, reportFeederPages: 200 },
   faults: DEFAULT_FAULT_SETTINGS,
+  protection: DEFAULT_PROTECTION_SETTINGS,
   costs: DEFAULT_COST_TABLE,
   remedies: DEFAULT_REMEDY_OPTIONS,
   ranking: DEFAULT_RANKING_OPTIONS,
@@ -280,6 +287,7 @@ export const pipelineConfigSchema: z.ZodType<PipelineConfig, unknown> = z.strict
     reportFeederPages: z.number().int().min(0).max(100_000).default(O.reportFeederPages),
   }).prefault({}),
   faults: faultSettingsSchema.prefault({}),
+  protection: protectionSettingsSchema.prefault({}),
   costs: costTableSchema.prefault({}),
   remedies: remedyOptionsSchema.prefault({}),
   ranking: rankingOptionsSchema.prefault({}),

@@ -23,6 +23,8 @@ import { describeDevices } from "../report/describe_devices.ts";
 import type { FaultSettings } from "../solve/fault_settings.ts";
 import { type FaultStudy, roundFaultStudy, studyFaults } from "../solve/study_faults.ts";
 import { checkFaults } from "../checks/check_faults.ts";
+import { checkProtection } from "../checks/check_protection.ts";
+import type { ProtectionSettings } from "../solve/protection_settings.ts";
 
 export interface StudyCase extends LoadFlowCase {
   readonly label?: string | undefined;
@@ -38,6 +40,7 @@ export interface CaseSettings {
 
 export interface StudySettings extends CaseSettings {
   readonly faults: FaultSettings;
+  readonly protection: ProtectionSettings;
   readonly costs: CostTable;
   readonly remedies: RemedyOptions;
 }
@@ -115,9 +118,14 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
   const faults = cases.status === "studied" && settings.faults.enabled
     ? studyFaults(form, settings.faults, settings.limits.lvMaxKv)
     : null;
+  const protection = faults !== null && settings.protection.enabled
+    ? checkProtection(form, settings.faults, settings.protection, settings.limits.lvMaxKv)
+    : [];
   const findings = faults === null
     ? cases.findings
-    : [...cases.findings, ...checkFaults(form, faults, settings.faults)].sort(compareFindings);
+    : [...cases.findings, ...checkFaults(form, faults, settings.faults), ...protection].sort(
+      compareFindings,
+    );
   const assessed = cases.status === "studied"
     ? assessFeeder(form, settings, findings)
     : { needs: [], headroom: null };

@@ -3,12 +3,15 @@
  * with their summaries, and answers each with the packed study (result file text
  * included). A test-only fault hook (init.faults) makes it crash or hang on named
  * feeders, to exercise the pool's recovery.
+ *
+ * The study modules are imported dynamically: some finish loading asynchronously (the
+ * linear-programming solver is WebAssembly), and a message that arrives before the handler
+ * is installed would be lost. The handler is installed first; it waits for the modules.
  */
 /// <reference lib="deno.worker" />
 import type { FeederForm } from "../model/feeder_form.ts";
 import type { FeederSummary } from "../model/summarize_feeder.ts";
-import { studyFeeder, type StudySettings } from "./study_feeder.ts";
-import { packStudy } from "./pack_study.ts";
+import type { StudySettings } from "./study_feeder.ts";
 import type { FeederProvenance } from "../report/run_files.ts";
 
 /** What the pool sends per feeder: its solver form and its validation summary. */
@@ -27,8 +30,10 @@ export interface StudyWorkerInit {
 }
 
 let init: StudyWorkerInit | undefined;
+const modules = Promise.all([import("./study_feeder.ts"), import("./pack_study.ts")]);
 
-self.onmessage = (e: MessageEvent) => {
+self.onmessage = async (e: MessageEvent) => {
+  const [{ studyFeeder }, { packStudy }] = await modules;
   const m = e.data as
     | { kind: "init"; init: StudyWorkerInit }
     | { kind: "task"; id: string; payload: StudyTask };

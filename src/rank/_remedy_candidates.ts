@@ -10,6 +10,11 @@ import type { ReactiveCurve, ReactiveMode } from "../model/network.ts";
 import type { CatalogueConductor, CostTable, RemedyOptions } from "./cost_table.ts";
 import type { NeedKind, RemedyItem, RemedyKind } from "./need.ts";
 import type { NeedDraft } from "./classify_needs.ts";
+import { studyCases, type StudySettings } from "../pipeline/study_feeder.ts";
+import {
+  designDirectionalScheme,
+  type ProposedSetting,
+} from "../solve/design_directional_scheme.ts";
 import {
   withBranchRating,
   withLineRegulator,
@@ -21,13 +26,17 @@ import {
 
 export interface Candidate {
   readonly kind: RemedyKind;
+  /** What to do; for a candidate without a form, why none could be made. */
   readonly description: string;
   readonly items: readonly RemedyItem[];
-  readonly form: FeederForm;
+  /** The changed feeder, or null when the kind cannot make one here (the reason above). */
+  readonly form: FeederForm | null;
+  readonly protectionSettings?: readonly ProposedSetting[];
 }
 
 export interface CandidateContext {
   readonly form: FeederForm;
+  readonly study: StudySettings;
   readonly costs: CostTable;
   readonly options: RemedyOptions;
   readonly lvMaxKv: number;
@@ -42,6 +51,7 @@ export const REMEDY_ORDER: Readonly<Record<NeedKind, readonly RemedyKind[]>> = {
   transformer_overload: ["transformer"],
   device_overload: ["switchgear"],
   device_duty: ["switchgear"],
+  protection_grading: ["protection_scheme"],
 };
 
 /**
@@ -78,6 +88,9 @@ export function* candidatesFor(
       break;
     case "transformer":
       yield* transformerCandidates(need, ctx);
+      break;
+    case "protection_scheme":
+      yield* protectionCandidates(need, ctx);
       break;
     case "switchgear":
       yield* need.kind === "device_duty"
@@ -420,4 +433,65 @@ function* dutySwitchgearCandidates(need: NeedDraft, ctx: CandidateContext): Gene
       form: { ...f, devices },
     };
   }
+}
+
+/** Codes of the findings that show a relay must see direction. */
+const ONE_WAY_CODES = new Set([
+  "protection.reverse_pickup",
+  "protection.wrong_device",
+  "protection.sympathetic_trip",
+]);
+
+/**
+ * A directional scheme (design_directional_scheme.ts): forward elements on the relays the
+ * evidence shows tripping on back-feed, every inverse-time relay regraded by the linear
+ * programme, pickups above the largest load current the load-flow cases put through them.
+ */
+function* protectionCandidates(need: NeedDraft, ctx: CandidateContext): Generator<Candidate> {
+  const f = ctx.form, p = ctx.study.protection;
+  const directional = new Set(
+    need.evidence.filter((e) => ONE_WAY_CODES.has(e.code)).map((e) => e.where.id),
+  );
+  const loads = studyCases(f, { ...ctx.study, output: { busResults: false, branchResults: true } });
+  const load = new Map<string, number>();
+  for (const c of loads.cases) {
+    for (const b of c.branches ?? []) load.set(b.id, Math.max(load.get(b.id) ?? 0, b.iA));
+  }
+  const scheme = designDirectionalScheme(f, directional, load, ctx.study.faults, ctx.lvMaxKv, {
+    intervalS: p.coordinationIntervalS,
+    sensitivityFactor: p.sensitivityFactor,
+    loadMargin: p.loadMargin,
+    minTms: p.minTms,
+    maxTms: p.maxTms,
+  });
+  if (scheme.status === "infeasible") {
+    yield { kind: "protection_scheme", description: scheme.reason, items: [], form: null };
+    return;
+  }
+  const changed = scheme.settings.filter((s) =>
+    s.direction !== s.before.direction || Math.abs(s.pickupA - s.before.pickupA) > 1e-9 ||
+    Math.abs(s.timeMultiplier - s.before.timeMultiplier) > 1e-9
+  );
+  const made = scheme.settings.filter((s) => s.direction !== s.before.direction);
+  const parts = changed.map((s) =>
+    `"${s.device}" ${s.direction === "forward" ? "forward-directional, " : ""}pickup ${
+      roundTo(s.pickupA, 0)
+    } A, multiplier ${s.before.timeMultiplier} → ${s.timeMultiplier}`
+  );
+  yield {
+    kind: "protection_scheme",
+    description: `Directional protection scheme: ${
+      parts.join("; ")
+    } (a screening proposal for a protection engineer to verify)`,
+    items: [
+      ...(made.length > 0
+        ? [
+          item("directional element on a relay", made.length, "each", ctx.costs.directionalElement),
+        ]
+        : []),
+      item("new relay settings", changed.length, "each", ctx.costs.protectionSettingPerRelay),
+    ],
+    form: scheme.form,
+    protectionSettings: scheme.settings,
+  };
 }

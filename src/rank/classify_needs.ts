@@ -20,10 +20,28 @@ export const NEED_RULES: Readonly<
   "thermal.overload": { needClass: "statutory", kind: "by_branch" },
   "fault.breaking_duty": { needClass: "safety", kind: "device_duty" },
   "fault.making_duty": { needClass: "safety", kind: "device_duty" },
+  ...Object.fromEntries(
+    [
+      "wrong_device",
+      "miscoordination",
+      "insensitive",
+      "blinding",
+      "reverse_pickup",
+      "sympathetic_trip",
+      "fuse_saving_lost",
+      "needs_directional",
+    ].map((
+      c,
+    ) => [`protection.${c}`, {
+      needClass: "safety" as const,
+      kind: "protection_grading" as const,
+    }]),
+  ),
 };
 
 const NEED_KIND_ORDER: readonly NeedKind[] = [
   "device_duty",
+  "protection_grading",
   "overvoltage",
   "undervoltage",
   "voltage_change",
@@ -59,6 +77,12 @@ export function needKindOf(
  * 100 % is 20 %).
  */
 export function excessPercent(f: Pick<Finding, "code" | "value" | "limit">): number {
+  if (f.code.startsWith("protection.")) {
+    // Protection limits are crossed from either side (a margin too short, a current too
+    // high or too low): the distance from the limit.
+    const limit = Math.abs(f.limit);
+    return limit > 0 ? 100 * Math.abs(f.value - f.limit) / limit : 100 * Math.abs(f.value);
+  }
   if (f.code === "voltage.above_band" || f.code === "voltage.below_band") {
     const margin = Math.abs(f.limit - 1);
     return margin > 0 ? 100 * Math.abs(f.value - f.limit) / margin : 0;
@@ -151,6 +175,7 @@ const WHAT: Record<NeedKind, string> = {
   transformer_overload: "Transformer overloaded",
   device_overload: "Switching device overloaded",
   device_duty: "Fault current beyond what a switching device can interrupt or make",
+  protection_grading: "Protection does not coordinate with the generation connected",
 };
 
 function summarize(kind: NeedKind, worst: Finding, places: number, cases: string[]): string {

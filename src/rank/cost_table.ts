@@ -36,6 +36,10 @@ export interface CostTable {
   readonly transformerPerMva: number;
   /** Replacing a switching device with a higher-rated one, each. */
   readonly switchgearReplacement: number;
+  /** Adding a directional element to a relay (voltage transformers, relay function), each. */
+  readonly directionalElement: number;
+  /** New settings of one relay (study, test and commissioning). */
+  readonly protectionSettingPerRelay: number;
   readonly conductors: readonly CatalogueConductor[];
 }
 
@@ -81,6 +85,8 @@ export const DEFAULT_COST_TABLE: CostTable = {
   transformerFixed: 40,
   transformerPerMva: 18,
   switchgearReplacement: 30,
+  directionalElement: 12,
+  protectionSettingPerRelay: 1.5,
   conductors: [
     {
       conductorClass: "MV overhead 150 mm² Al",

@@ -9,6 +9,7 @@ import type { FeederForm } from "../model/feeder_form.ts";
 import { type CaseSettings, studyCases, type StudySettings } from "../pipeline/study_feeder.ts";
 import { studyFaults } from "../solve/study_faults.ts";
 import { checkFaults } from "../checks/check_faults.ts";
+import { checkProtection } from "../checks/check_protection.ts";
 import type { Finding } from "../checks/finding.ts";
 
 import type { CostTable, RemedyOptions } from "./cost_table.ts";
@@ -37,28 +38,38 @@ export function designRemedies(
   const kindsBefore = new Set<NeedKind>(drafts.map((d) => d.kind));
   const ctx = {
     form,
+    study: s.settings,
     costs: s.costs,
     options: s.options,
     lvMaxKv: s.settings.limits.lvMaxKv,
   };
   const check = (need: NeedDraft, c: Candidate): string | null => {
+    if (c.form === null) return c.description;
+    const trial = c.form;
     // The need's own cases first: most candidates fail there, at a fraction of the cost.
     const own = new Set(need.evidence.map((e) => e.caseId));
     const first = lean.cases.filter((x) => own.has(x.id));
     if (first.length < lean.cases.length) {
-      const quick = studyCases(c.form, { ...lean, cases: first });
+      const quick = studyCases(trial, { ...lean, cases: first });
       const left = quick.findings.filter((f) => needKindOf(form, f) === need.kind).length;
       if (quick.status !== "studied") return "the feeder does not solve with it";
       if (left > 0) return `${left} finding(s) of the need remain`;
     }
-    const r = studyCases(c.form, lean);
+    const r = studyCases(trial, lean);
     if (r.status !== "studied") return "the feeder does not solve with it";
     const findings: Finding[] = [...r.findings];
     // The short-circuit study too: it shows a duty need removed, and a remedy that raises
     // fault levels (new copper, say) beyond what a device can interrupt.
     if (s.settings.faults.enabled) {
       const f = s.settings.faults;
-      findings.push(...checkFaults(c.form, studyFaults(c.form, f, lean.limits.lvMaxKv), f));
+      findings.push(...checkFaults(trial, studyFaults(trial, f, lean.limits.lvMaxKv), f));
+      // The protection checks for a protection need (and for no other: they are the study's
+      // dearest part, and other remedies leave the settings alone).
+      if (need.kind === "protection_grading" && s.settings.protection.enabled) {
+        findings.push(
+          ...checkProtection(trial, f, s.settings.protection, lean.limits.lvMaxKv),
+        );
+      }
     }
     const left = findings.filter((f) => needKindOf(form, f) === need.kind);
     if (left.length > 0) {
@@ -116,7 +127,9 @@ function costOf(c: Candidate): number {
 function toRemedy(c: Candidate, s: RemedySettings): Remedy {
   let capacityUnlockedMw: number | null = null;
   if (s.headroom !== null) {
-    const after = computeDgHeadroom(c.form, s.settings, s.options.headroomMaxFactor);
+    const after = c.form === null
+      ? null
+      : computeDgHeadroom(c.form, s.settings, s.options.headroomMaxFactor);
     if (after !== null) {
       capacityUnlockedMw = Math.round((after.headroomMw - s.headroom.headroomMw) * 1e4) / 1e4;
     }
@@ -127,5 +140,6 @@ function toRemedy(c: Candidate, s: RemedySettings): Remedy {
     items: c.items,
     cost: costOf(c),
     capacityUnlockedMw,
+    ...(c.protectionSettings === undefined ? {} : { protectionSettings: c.protectionSettings }),
   };
 }

@@ -5,6 +5,7 @@
  * orders them across the fleet.
  */
 import type { FindingPlace } from "../checks/finding.ts";
+import type { ProposedSetting } from "../solve/design_directional_scheme.ts";
 
 /**
  * Severity classes, most urgent first: safety and protection; statutory voltage and
@@ -21,7 +22,8 @@ export type NeedKind =
   | "line_overload"
   | "transformer_overload"
   | "device_overload"
-  | "device_duty";
+  | "device_duty"
+  | "protection_grading";
 
 /** One finding behind a need, reduced to what the evidence needs. */
 export interface NeedEvidence {
@@ -39,7 +41,8 @@ export type RemedyKind =
   | "voltage_regulator"
   | "reconductor"
   | "transformer"
-  | "switchgear";
+  | "switchgear"
+  | "protection_scheme";
 
 /** A line of a remedy's bill of quantities. */
 export interface RemedyItem {
@@ -58,6 +61,8 @@ export interface Remedy {
   readonly cost: number;
   /** Growth of the feeder's generation headroom the remedy brings, MW (null: not applicable). */
   readonly capacityUnlockedMw: number | null;
+  /** A protection scheme's proposed relay settings, with what they were before. */
+  readonly protectionSettings?: readonly ProposedSetting[];
 }
 
 /** A remedy that was tried and did not remove the need, and why. */

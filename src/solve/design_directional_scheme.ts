@@ -85,6 +85,13 @@ export function designDirectionalScheme(
     const g = gradedStage(d);
     return g === null ? [] : [{ device: d, ...g }];
   });
+  if (graded.length === 0) {
+    return {
+      status: "infeasible",
+      reason:
+        "no relay with an inverse-time stage to regrade (fuses and definite-time stages only)",
+    };
+  }
   const models = (["max", "maxWithoutGeneration", "min"] as const)
     .map((c) => prepareFaultModel(form, faults, lvMaxKv, c))
     .filter((m) => m !== null);

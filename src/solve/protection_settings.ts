@@ -7,6 +7,11 @@ export interface ProtectionSettings {
   readonly sensitivityFactor: number;
   /** Time in which a fault on the busbar or a neighbouring feeder is cleared, s. */
   readonly neighbourClearingS: number;
+  /** A proposed pickup is at least this multiple of the largest load current through the device. */
+  readonly loadMargin: number;
+  /** Range of the time multipliers a proposed scheme may use. */
+  readonly minTms: number;
+  readonly maxTms: number;
 }
 
 export const DEFAULT_PROTECTION_SETTINGS: ProtectionSettings = {
@@ -14,4 +19,7 @@ export const DEFAULT_PROTECTION_SETTINGS: ProtectionSettings = {
   coordinationIntervalS: 0.3, // 0.2–0.4 s, 0.3 s typical for numerical relays
   sensitivityFactor: 1.5, // 1.5–2 × pickup
   neighbourClearingS: 0.5, // a busbar or neighbour-feeder fault cleared within 0.5 s
+  loadMargin: 1.25, // 1.2–1.5 × the largest load current
+  minTms: 0.05,
+  maxTms: 1.2,
 };
