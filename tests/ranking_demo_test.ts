@@ -25,7 +25,7 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
     assert(classAt.every((c, i) => i === 0 || classAt[i - 1]! <= c));
     // Besides the protection needs: a breaker below the fault level (safety), the thermal
     // needs by benefit per cost, then the planning one.
-    const core = run.ranking.filter((n) => n.kind !== "protection_grading");
+    const core = run.ranking.filter((n) => !n.kind.startsWith("protection_"));
     assertEquals(core.map((n) => [n.feederId, n.kind]), [
       ["CTY-K4", "device_duty"],
       ["HTH-N2", "line_overload"],
@@ -52,7 +52,15 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
     assert(rural.customers > 0);
     // Protection needs are safety needs; a regrading scheme was tried on each, and the
     // demo's relay–fuse cases are beyond what multipliers alone can fix.
-    const protection = run.ranking.filter((n) => n.kind === "protection_grading");
+    // The rural feeder's sectionalizing recloser is tripped by back-feed: the proposed scheme
+    // makes it forward-directional, checked by the protection checks.
+    const direction = run.ranking.find((n) =>
+      n.feederId === "MOR-L1" && n.kind === "protection_direction"
+    )!;
+    assertEquals(direction.remedy?.kind, "protection_scheme");
+    const rec = direction.remedy!.protectionSettings!.find((x) => x.device === "MOR-L1-REC04")!;
+    assertEquals([rec.before.direction, rec.direction], ["non_directional", "forward"]);
+    const protection = run.ranking.filter((n) => n.kind.startsWith("protection_"));
     assert(protection.length > 0);
     for (const n of protection) {
       assertEquals(n.needClass, "safety");

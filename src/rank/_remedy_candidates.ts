@@ -51,6 +51,7 @@ export const REMEDY_ORDER: Readonly<Record<NeedKind, readonly RemedyKind[]>> = {
   transformer_overload: ["transformer"],
   device_overload: ["switchgear"],
   device_duty: ["switchgear"],
+  protection_direction: ["protection_scheme"],
   protection_grading: ["protection_scheme"],
 };
 

@@ -20,27 +20,33 @@ export const NEED_RULES: Readonly<
   "thermal.overload": { needClass: "statutory", kind: "by_branch" },
   "fault.breaking_duty": { needClass: "safety", kind: "device_duty" },
   "fault.making_duty": { needClass: "safety", kind: "device_duty" },
+  // Generation feeding faults from the feeder end: the grading works one way only.
   ...Object.fromEntries(
-    [
-      "wrong_device",
-      "miscoordination",
-      "insensitive",
-      "blinding",
-      "reverse_pickup",
-      "sympathetic_trip",
-      "fuse_saving_lost",
-      "needs_directional",
-    ].map((
-      c,
-    ) => [`protection.${c}`, {
-      needClass: "safety" as const,
-      kind: "protection_grading" as const,
-    }]),
+    ["wrong_device", "reverse_pickup", "sympathetic_trip", "blinding", "needs_directional"].map(
+      (
+        c,
+      ) => [`protection.${c}`, {
+        needClass: "safety" as const,
+        kind: "protection_direction" as const,
+      }],
+    ),
+  ),
+  // Grading and sensitivity of the settings themselves.
+  ...Object.fromEntries(
+    ["miscoordination", "insensitive", "fuse_saving_lost"].map(
+      (
+        c,
+      ) => [`protection.${c}`, {
+        needClass: "safety" as const,
+        kind: "protection_grading" as const,
+      }],
+    ),
   ),
 };
 
 const NEED_KIND_ORDER: readonly NeedKind[] = [
   "device_duty",
+  "protection_direction",
   "protection_grading",
   "overvoltage",
   "undervoltage",
@@ -175,7 +181,9 @@ const WHAT: Record<NeedKind, string> = {
   transformer_overload: "Transformer overloaded",
   device_overload: "Switching device overloaded",
   device_duty: "Fault current beyond what a switching device can interrupt or make",
-  protection_grading: "Protection does not coordinate with the generation connected",
+  protection_direction:
+    "Generation feeds faults from the feeder end: protection must become directional",
+  protection_grading: "Protection settings do not coordinate",
 };
 
 function summarize(kind: NeedKind, worst: Finding, places: number, cases: string[]): string {

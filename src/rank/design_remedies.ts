@@ -65,7 +65,10 @@ export function designRemedies(
       findings.push(...checkFaults(trial, studyFaults(trial, f, lean.limits.lvMaxKv), f));
       // The protection checks for a protection need (and for no other: they are the study's
       // dearest part, and other remedies leave the settings alone).
-      if (need.kind === "protection_grading" && s.settings.protection.enabled) {
+      if (
+        (need.kind === "protection_grading" || need.kind === "protection_direction") &&
+        s.settings.protection.enabled
+      ) {
         findings.push(
           ...checkProtection(trial, f, s.settings.protection, lean.limits.lvMaxKv),
         );

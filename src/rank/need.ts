@@ -23,6 +23,7 @@ export type NeedKind =
   | "transformer_overload"
   | "device_overload"
   | "device_duty"
+  | "protection_direction"
   | "protection_grading";
 
 /** One finding behind a need, reduced to what the evidence needs. */
