@@ -60,6 +60,9 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
     assertEquals(direction.remedy?.kind, "protection_scheme");
     const rec = direction.remedy!.protectionSettings!.find((x) => x.device === "MOR-L1-REC04")!;
     assertEquals([rec.before.direction, rec.direction], ["non_directional", "forward"]);
+    const settings = await Deno.readTextFile(`${TMP}/protection.csv`);
+    assert(settings.includes("licensed protection engineer"));
+    assert(settings.includes("MOR-L1,protection_direction,MOR-L1-REC04,"));
     const protection = run.ranking.filter((n) => n.kind.startsWith("protection_"));
     assert(protection.length > 0);
     for (const n of protection) {

@@ -18,6 +18,7 @@ import { createBusParquetWriter } from "../report/bus_parquet.ts";
 import { createBranchParquetWriter } from "../report/branch_parquet.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
 import { faultsCsvHead, faultsCsvRows } from "../report/faults_csv.ts";
+import { protectionCsvHead, protectionCsvRows } from "../report/protection_csv.ts";
 import { openAtomicFile } from "./open_atomic_file.ts";
 
 export interface RunReportInput {
@@ -57,6 +58,8 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
   const faults = await openAtomicFile(join(outDir, "faults.csv"));
   const encoder = new TextEncoder();
   await faults.write(encoder.encode(faultsCsvHead(provenance)));
+  const protection = await openAtomicFile(join(outDir, "protection.csv"));
+  await protection.write(encoder.encode(protectionCsvHead(provenance)));
   const buses = await openAtomicFile(join(outDir, "buses.parquet"));
   const branches = await openAtomicFile(join(outDir, "branches.parquet"));
   const rows: FleetFeederRow[] = [];
@@ -71,6 +74,8 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
       await busWriter.addFeeder(file);
       const faultRows = faultsCsvRows(file);
       if (faultRows !== "") await faults.write(encoder.encode(faultRows));
+      const protectionRows = protectionCsvRows(file);
+      if (protectionRows !== "") await protection.write(encoder.encode(protectionRows));
       await branchWriter.addFeeder(file);
     }
     await busWriter.finish();
@@ -78,10 +83,12 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
     await buses.commit();
     await branches.commit();
     await faults.commit();
+    await protection.commit();
   } finally {
     await buses.abandon();
     await branches.abandon();
     await faults.abandon();
+    await protection.abandon();
   }
   const ranking = rankNeeds(needs, config.ranking);
   await writeFileAtomic(join(outDir, "ranking.csv"), rankingCsv(ranking, provenance));
@@ -96,6 +103,7 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
       "ranking.csv",
       "fleet.json",
       "faults.csv",
+      "protection.csv",
       "buses.parquet",
       "branches.parquet",
       "report.html",
