@@ -7,7 +7,7 @@
  * same for the same input (the only times are those of the run record).
  */
 import { CAUTION } from "./run_files.ts";
-import type { FeederFile } from "./feeder_file.ts";
+import type { DeviceCurves, FeederFile } from "./feeder_file.ts";
 import type { ReportContext } from "./report_context.ts";
 import { type Html, html, raw } from "./_html.ts";
 import { formatNumber } from "./_number_text.ts";
@@ -106,6 +106,31 @@ export async function renderReportHead(ctx: ReportContext): Promise<string> {
   `.__html.trimStart();
 }
 
+/** The feeder's devices with the settings of a proposed protection scheme, or null without one. */
+function proposedDevices(file: FeederFile): DeviceCurves[] | null {
+  const settings = (file.needs ?? []).flatMap((n) => n.remedy?.protectionSettings ?? []);
+  if (settings.length === 0) return null;
+  return file.devices.map((d) => {
+    const mine = settings.filter((s) => s.device === d.id);
+    if (mine.length === 0) return d;
+    const directional = mine.some((s) => s.direction === "forward");
+    return {
+      ...d,
+      relays: d.relays.map((r) => ({
+        ...r,
+        stages: r.stages.map((st) => {
+          const s = mine.find((x) => x.relay === r.id && x.stage === st.stage);
+          return {
+            ...st,
+            ...(directional ? { direction: "forward" as const } : {}),
+            ...(s === undefined ? {} : { pickupA: s.pickupA, timeMultiplier: s.timeMultiplier }),
+          };
+        }),
+      })),
+    };
+  });
+}
+
 /** The fault currents the time–current plot marks: the largest and the smallest on the feeder. */
 function faultMarks(file: FeederFile): FaultMark[] {
   const f = file.faults;
@@ -132,10 +157,14 @@ function faultMarks(file: FeederFile): FaultMark[] {
 export async function renderFeederPage(file: FeederFile, ctx: ReportContext): Promise<string> {
   const anchor = feederAnchor(file.feederId);
   const drawnCase = file.cases.find((c) => c.converged && (c.buses?.length ?? 0) > 0);
-  const [profile, tcc, faultLevels] = await Promise.all([
+  const proposed = proposedDevices(file);
+  const [profile, tcc, faultLevels, tccAfter] = await Promise.all([
     voltageProfileChart(file.cases, ctx.limits, `${anchor}-vp`),
     timeCurrentChart(file.devices, `${anchor}-tc`, faultMarks(file)),
     renderFaultLevels(file, `${anchor}-fl`),
+    proposed === null
+      ? Promise.resolve(null)
+      : timeCurrentChart(proposed, `${anchor}-tca`, faultMarks(file)),
   ]);
   let schematic: Html =
     html`<p class="note">No case has bus and branch results to draw the schematic from.</p>`;
@@ -209,6 +238,13 @@ export async function renderFeederPage(file: FeederFile, ctx: ReportContext): Pr
         file.faults.buses.length === 0
       ? "Fault currents are not computed in this run, so none are marked on the curves."
       : "Dotted lines: the largest three-phase fault current on the feeder (maximum condition, generation in service) and the smallest line-to-line and line-to-earth currents (minimum condition), which the protection must clear."}</p>
+    ${tccAfter === null ? "" : html`<h3>Protection: proposed directional scheme</h3>${
+      figure(
+        tccAfter.svg,
+        html`The same devices with the settings the proposed scheme gives them (protection.csv): directional relays operate only for current flowing away from the source. A screening proposal, to be verified by a licensed protection engineer.`,
+        "No curves to draw.",
+      )
+    }`}
     <h3>Findings</h3>
     ${renderFindingsSummary(file)}
     </section>
