@@ -60,6 +60,15 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
     assertEquals(direction.remedy?.kind, "protection_scheme");
     const rec = direction.remedy!.protectionSettings!.find((x) => x.device === "MOR-L1-REC04")!;
     assertEquals([rec.before.direction, rec.direction], ["non_directional", "forward"]);
+    // The coordination table: every bus, both fault types, three conditions.
+    const mor = JSON.parse(await Deno.readTextFile(`${TMP}/feeders/MOR-L1.json`));
+    assert(mor.coordination.length > 0);
+    assert(mor.coordination.every((r: { primary: string | null }) => r.primary !== null));
+    assert(
+      mor.coordination.some((r: { first: string; busesLost: number }) =>
+        r.first === "MOR-L1-REC04" && r.busesLost > 10
+      ),
+    );
     const settings = await Deno.readTextFile(`${TMP}/protection.csv`);
     assert(settings.includes("licensed protection engineer"));
     assert(settings.includes("MOR-L1,protection_direction,MOR-L1-REC04,"));

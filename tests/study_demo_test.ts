@@ -41,3 +41,11 @@ Deno.test("studyFeeder() finds no voltage problem on a lightly loaded urban feed
   const urban = studies.get("CTY-K3")!;
   assertEquals(urban.findings.filter((f) => f.code.startsWith("voltage.")), []);
 });
+
+Deno.test("studyFeeder() leaves the protection of a feeder above protection.maxBuses unchecked, with a warning", () => {
+  const form = fleet.value.forms.find((f) => f.feederId === "MOR-L1")!;
+  const s = studyFeeder(form, { ...config, protection: { ...config.protection, maxBuses: 10 } });
+  assertEquals(s.coordination, null);
+  assert(s.diagnostics.some((d) => d.code === "protection.too_large" && d.severity === "warning"));
+  assert(!s.findings.some((f) => f.code.startsWith("protection.")));
+});

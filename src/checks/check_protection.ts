@@ -33,7 +33,7 @@ import {
   simulateFaultProtection,
 } from "../solve/simulate_fault_protection.ts";
 
-type Condition = "max" | "maxWithoutGeneration" | "min";
+export type Condition = "max" | "maxWithoutGeneration" | "min";
 
 interface Candidate {
   readonly code: string;
@@ -51,6 +51,8 @@ export function checkProtection(
   faults: FaultSettings,
   s: ProtectionSettings,
   lvMaxKv: number,
+  /** Told every fault simulated at a bus of the feeder (for the coordination table). */
+  onFault?: (condition: Condition, r: FaultResponse) => void,
 ): Finding[] {
   const devices = protectiveDevices(form);
   if (devices.length === 0 || form.nBranch !== form.nBus - 1) return [];
@@ -80,6 +82,7 @@ export function checkProtection(
         if (m === undefined) continue;
         if (type === "line_to_earth" && !Number.isFinite(m.t0.zthRe[k]!)) continue;
         res[cond] = simulateFaultProtection(m, devices, k, type);
+        onFault?.(cond, res[cond]!);
       }
       for (const [cond, r] of Object.entries(res) as [Condition, FaultResponse][]) {
         const p = r.primary, b = r.backup, first = r.first;

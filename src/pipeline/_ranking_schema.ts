@@ -34,6 +34,7 @@ export const protectionSettingsSchema: z.ZodType<ProtectionSettings, unknown> = 
   loadMargin: z.number().min(1).max(5).default(P.loadMargin),
   minTms: z.number().gt(0).max(10).default(P.minTms),
   maxTms: z.number().gt(0).max(10).default(P.maxTms),
+  maxBuses: z.number().int().min(2).max(100_000).default(P.maxBuses),
 });
 
 export const faultSettingsSchema: z.ZodType<FaultSettings, unknown> = z.strictObject({

@@ -3,7 +3,7 @@
  * voltage-change check needs, and the checks. Returns plain data for the report stage.
  */
 import { roundTo } from "../model/round_to.ts";
-import type { Diagnostic } from "../model/diagnostic.ts";
+import { type Diagnostic, makeDiagnostic } from "../model/diagnostic.ts";
 import { BRANCH_LINE, BRANCH_SWITCH, type FeederForm } from "../model/feeder_form.ts";
 import type { LoadFlowCase, LoadFlowOptions, LoadFlowResult } from "../solve/load_flow_types.ts";
 import { prepareLoadFlow } from "../solve/prepare_load_flow.ts";
@@ -24,6 +24,7 @@ import type { FaultSettings } from "../solve/fault_settings.ts";
 import { type FaultStudy, roundFaultStudy, studyFaults } from "../solve/study_faults.ts";
 import { checkFaults } from "../checks/check_faults.ts";
 import { checkProtection } from "../checks/check_protection.ts";
+import { coordinationCollector, type CoordinationRow } from "../report/coordination_table.ts";
 import type { ProtectionSettings } from "../solve/protection_settings.ts";
 
 export interface StudyCase extends LoadFlowCase {
@@ -108,6 +109,8 @@ export interface CasesStudy {
 export interface FeederStudy extends CasesStudy {
   /** The short-circuit study, rounded for the file (null when off or the cases failed). */
   readonly faults: FaultStudy | null;
+  /** The protection's response to every fault simulated (null when the checks are off). */
+  readonly coordination: readonly CoordinationRow[] | null;
   readonly needs: readonly Need[];
   readonly headroom: DgHeadroom | null;
   readonly devices: readonly DeviceCurves[];
@@ -118,8 +121,17 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
   const faults = cases.status === "studied" && settings.faults.enabled
     ? studyFaults(form, settings.faults, settings.limits.lvMaxKv)
     : null;
-  const protection = faults !== null && settings.protection.enabled
-    ? checkProtection(form, settings.faults, settings.protection, settings.limits.lvMaxKv)
+  const coordination: CoordinationRow[] = [];
+  const protectionOn = faults !== null && settings.protection.enabled &&
+    form.nBus <= settings.protection.maxBuses;
+  const protection = protectionOn
+    ? checkProtection(
+      form,
+      settings.faults,
+      settings.protection,
+      settings.limits.lvMaxKv,
+      coordinationCollector(form, coordination),
+    )
     : [];
   const findings = faults === null
     ? cases.findings
@@ -132,10 +144,20 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
   return {
     ...cases,
     findings,
-    diagnostics: faults === null
-      ? cases.diagnostics
-      : [...cases.diagnostics, ...faults.diagnostics],
+    diagnostics: [
+      ...cases.diagnostics,
+      ...(faults?.diagnostics ?? []),
+      ...(faults !== null && settings.protection.enabled && !protectionOn
+        ? [makeDiagnostic(
+          "protection.too_large",
+          "warning",
+          `Feeder "${form.feederId}" has ${form.nBus} buses, more than the ${settings.protection.maxBuses} the protection study checks; its protection is not checked`,
+          { feederId: form.feederId },
+        )]
+        : []),
+    ],
     faults: faults === null ? null : roundFaultStudy(faults),
+    coordination: protectionOn ? coordination : null,
     ...assessed,
     devices: describeDevices(form),
   };

@@ -67,7 +67,7 @@ export function designRemedies(
       // dearest part, and other remedies leave the settings alone).
       if (
         (need.kind === "protection_grading" || need.kind === "protection_direction") &&
-        s.settings.protection.enabled
+        s.settings.protection.enabled && trial.nBus <= s.settings.protection.maxBuses
       ) {
         findings.push(
           ...checkProtection(trial, f, s.settings.protection, lean.limits.lvMaxKv),

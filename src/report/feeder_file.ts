@@ -10,6 +10,7 @@ import type { DgHeadroom, Need } from "../rank/need.ts";
 import type { CurvePoint, RelayStage } from "../model/network.ts";
 import type { FeederProvenance } from "./run_files.ts";
 import type { FaultStudy } from "../solve/study_faults.ts";
+import type { CoordinationRow } from "./coordination_table.ts";
 
 /** A switching device with the settings needed to draw its time–current curves. */
 export interface DeviceCurves {
@@ -40,6 +41,8 @@ export interface FeederFile {
   readonly findings: readonly Finding[];
   /** The short-circuit study (absent in files written before it, null when off). */
   readonly faults?: FaultStudy | null;
+  /** The protection's response to every fault simulated (absent in older files, null when off). */
+  readonly coordination?: readonly CoordinationRow[] | null;
   readonly needs: readonly Need[];
   readonly headroom: DgHeadroom | null;
   readonly devices: readonly DeviceCurves[];

@@ -145,6 +145,7 @@ export function feederJson(
       cases: study?.cases ?? [],
       findings: study?.findings ?? [],
       faults: study?.faults ?? null,
+      coordination: study?.coordination ?? null,
       needs: study?.needs ?? [],
       headroom: study?.headroom ?? null,
       devices: study?.devices ?? [],

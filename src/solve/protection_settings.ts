@@ -12,6 +12,11 @@ export interface ProtectionSettings {
   /** Range of the time multipliers a proposed scheme may use. */
   readonly minTms: number;
   readonly maxTms: number;
+  /**
+   * Feeders up to this many buses are checked: faults at every bus make the study grow with
+   * the square of the feeder's size.
+   */
+  readonly maxBuses: number;
 }
 
 export const DEFAULT_PROTECTION_SETTINGS: ProtectionSettings = {
@@ -22,4 +27,5 @@ export const DEFAULT_PROTECTION_SETTINGS: ProtectionSettings = {
   loadMargin: 1.25, // 1.2–1.5 × the largest load current
   minTms: 0.05,
   maxTms: 1.2,
+  maxBuses: 3000,
 };
