@@ -4,6 +4,9 @@
  * and at the busbar it hangs from. One finding per code and device, with the worst case as
  * evidence (fault bus, type, condition, currents, times):
  *
+ * (Conditions: maximum currents with and without generation, minimum currents with and
+ * without it.)
+ *
  * - protection.wrong_device: a device not between the fault and the source operates first
  *   (it cuts off a healthy part, typically fed back by generation);
  * - protection.miscoordination: the backup operates before the primary, or less than the
@@ -33,7 +36,13 @@ import {
   simulateFaultProtection,
 } from "../solve/simulate_fault_protection.ts";
 
-export type Condition = "max" | "maxWithoutGeneration" | "min";
+export type Condition = "max" | "maxWithoutGeneration" | "min" | "minWithGeneration";
+const CONDITIONS: readonly Condition[] = [
+  "max",
+  "maxWithoutGeneration",
+  "min",
+  "minWithGeneration",
+];
 
 interface Candidate {
   readonly code: string;
@@ -57,7 +66,8 @@ export function checkProtection(
   const devices = protectiveDevices(form);
   if (devices.length === 0 || form.nBranch !== form.nBus - 1) return [];
   const models: Partial<Record<Condition, FaultModel>> = {};
-  for (const c of ["max", "maxWithoutGeneration", "min"] as const) {
+  for (const c of CONDITIONS) {
+    if (c === "minWithGeneration" && form.generators.n === 0) continue;
     const m = prepareFaultModel(form, faults, lvMaxKv, c);
     if (m !== null) models[c] = m;
   }
@@ -77,7 +87,7 @@ export function checkProtection(
   for (let k = form.substationBusCount; k < form.nBus; k++) {
     for (const type of types) {
       const res: Partial<Record<Condition, FaultResponse>> = {};
-      for (const cond of ["max", "maxWithoutGeneration", "min"] as const) {
+      for (const cond of CONDITIONS) {
         const m = models[cond];
         if (m === undefined) continue;
         if (type === "line_to_earth" && !Number.isFinite(m.t0.zthRe[k]!)) continue;
@@ -121,7 +131,7 @@ export function checkProtection(
             });
           }
         }
-        if (cond === "min") {
+        if (cond === "min" || cond === "minWithGeneration") {
           const pickup = lowestPickupA(devices.find((d) => d.id === p.device)!, type);
           const seen = type === "line_to_earth" && pickup.earth ? p.residualA : p.iA;
           const needed = s.sensitivityFactor * (pickup.earth ?? pickup.phase ?? 0);

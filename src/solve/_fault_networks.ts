@@ -30,7 +30,7 @@ import type { Earthing, WindingConnection } from "../model/network.ts";
 import { passesZeroSequence } from "../model/vector_group.ts";
 import type { FaultSettings } from "./fault_settings.ts";
 
-export type FaultCondition = "max" | "maxWithoutGeneration" | "min";
+export type FaultCondition = "max" | "maxWithoutGeneration" | "min" | "minWithGeneration";
 
 export interface SequenceNetworks {
   readonly condition: FaultCondition;
@@ -60,7 +60,7 @@ export function buildSequenceNetworks(
   lvMaxKv: number,
 ): SequenceNetworks {
   const n = form.nBus, nb = form.nBranch;
-  const max = condition !== "min";
+  const max = condition === "max" || condition === "maxWithoutGeneration";
   const lv = (k: number) => form.vnKv[k]! <= lvMaxKv;
   const c = Float64Array.from(
     { length: n },
@@ -133,7 +133,8 @@ export function buildSequenceNetworks(
 
   // Machines and converters.
   const g = form.generators;
-  const withGeneration = condition === "max" || (condition === "min" && s.minWithGeneration);
+  const withGeneration = condition === "max" || condition === "minWithGeneration" ||
+    (condition === "min" && s.minWithGeneration);
   const convBus: number[] = [], convI: number[] = [];
   const sinPhi = Math.sqrt(Math.max(0, 1 - s.synchronousPowerFactor ** 2));
   for (let i = 0; withGeneration && i < g.n; i++) {
