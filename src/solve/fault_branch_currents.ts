@@ -21,7 +21,7 @@ import {
   type SequenceNetworks,
 } from "./_fault_networks.ts";
 import { solveTreeThevenin, type TreeThevenin } from "./tree_thevenin.ts";
-import { treeColumn } from "./tree_column.ts";
+import { treeColumn, treeSolve } from "./tree_column.ts";
 
 export interface FaultModel {
   readonly form: FeederForm;
@@ -95,16 +95,11 @@ export function branchCurrentsForFault(
   const outRe = new Float64Array(n), outIm = new Float64Array(n);
   const col = new Float64Array(n), colIm = new Float64Array(n);
   // Positive sequence: ΔV = Z·J − Z(:,k)·I1; subtree draw = y·ΔV − J (+ I1 at k).
+  // Z·J in one tree solve, however many converters there are.
   const v1Re = new Float64Array(n), v1Im = new Float64Array(n);
-  m.converterColumns.forEach((c, i) => {
-    const bus = nets.converterBus[i]!;
-    const ar = jRe[bus]!, ai = jIm[bus]!;
-    if (ar === 0 && ai === 0) return;
-    for (let u = 0; u < n; u++) {
-      v1Re[u] = v1Re[u]! + c.re[u]! * ar - c.im[u]! * ai;
-      v1Im[u] = v1Im[u]! + c.re[u]! * ai + c.im[u]! * ar;
-    }
-  });
+  if (m.converterColumns.length > 0) {
+    treeSolve(form.parent, t1, nets.z1Re, nets.z1Im, jRe, jIm, v1Re, v1Im);
+  }
   addSequence(
     form.parent,
     t1,

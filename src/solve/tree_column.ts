@@ -103,3 +103,53 @@ export function transferMagnitudeSums(
   for (let k = 0; k < n; k++) up[k] = up[k]! + down[k]!;
   return up;
 }
+
+/**
+ * Bus voltages v = Z·J for current injections J at any buses of a tree, in O(n): the
+ * injections gathered from the leaves up (a subtree passes J/(1 + z·ySub) to its parent),
+ * the root's voltage from its total, then down each branch
+ * v_child = (v_parent + z·Jsub) / (1 + z·ySub). Equal to Σj Z(:,j)·Jj without forming a
+ * column per injection.
+ */
+export function treeSolve(
+  parent: Int32Array,
+  t: TreeThevenin,
+  zRe: Float64Array,
+  zIm: Float64Array,
+  jRe: Float64Array,
+  jIm: Float64Array,
+  outRe: Float64Array,
+  outIm: Float64Array,
+): void {
+  const n = t.zthRe.length;
+  const aRe = Float64Array.from(jRe.subarray(0, n)), aIm = Float64Array.from(jIm.subarray(0, n));
+  // Up: each subtree's injections, passed to its parent through the branch divider.
+  for (let k = n - 1; k > 0; k--) {
+    const zr = zRe[k - 1]!, zi = zIm[k - 1]!;
+    if (!Number.isFinite(zr) || !Number.isFinite(zi)) continue;
+    const dr = 1 + zr * t.ySubRe[k]! - zi * t.ySubIm[k]!,
+      di = zr * t.ySubIm[k]! + zi * t.ySubRe[k]!;
+    const d2 = dr * dr + di * di, p = parent[k]!;
+    aRe[p] = aRe[p]! + (aRe[k]! * dr + aIm[k]! * di) / d2;
+    aIm[p] = aIm[p]! + (aIm[k]! * dr - aRe[k]! * di) / d2;
+  }
+  const s0 = t.ySubRe[0]! ** 2 + t.ySubIm[0]! ** 2;
+  outRe[0] = s0 > 0 ? (aRe[0]! * t.ySubRe[0]! + aIm[0]! * t.ySubIm[0]!) / s0 : 0;
+  outIm[0] = s0 > 0 ? (aIm[0]! * t.ySubRe[0]! - aRe[0]! * t.ySubIm[0]!) / s0 : 0;
+  // Down: v_k = (v_parent + z·A_k) / (1 + z·ySub_k).
+  for (let k = 1; k < n; k++) {
+    const zr = zRe[k - 1]!, zi = zIm[k - 1]!, sr = t.ySubRe[k]!, si = t.ySubIm[k]!;
+    if (!Number.isFinite(zr) || !Number.isFinite(zi)) {
+      const s2 = sr * sr + si * si;
+      outRe[k] = s2 > 0 ? (aRe[k]! * sr + aIm[k]! * si) / s2 : 0;
+      outIm[k] = s2 > 0 ? (aIm[k]! * sr - aRe[k]! * si) / s2 : 0;
+      continue;
+    }
+    const p = parent[k]!;
+    const nr = outRe[p]! + zr * aRe[k]! - zi * aIm[k]!,
+      ni = outIm[p]! + zr * aIm[k]! + zi * aRe[k]!;
+    const dr = 1 + zr * sr - zi * si, di = zr * si + zi * sr, d2 = dr * dr + di * di;
+    outRe[k] = (nr * dr + ni * di) / d2;
+    outIm[k] = (ni * dr - nr * di) / d2;
+  }
+}
