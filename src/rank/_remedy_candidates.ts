@@ -458,13 +458,7 @@ function* protectionCandidates(need: NeedDraft, ctx: CandidateContext): Generato
   for (const c of loads.cases) {
     for (const b of c.branches ?? []) load.set(b.id, Math.max(load.get(b.id) ?? 0, b.iA));
   }
-  const scheme = designDirectionalScheme(f, directional, load, ctx.study.faults, ctx.lvMaxKv, {
-    intervalS: p.coordinationIntervalS,
-    sensitivityFactor: p.sensitivityFactor,
-    loadMargin: p.loadMargin,
-    minTms: p.minTms,
-    maxTms: p.maxTms,
-  });
+  const scheme = designDirectionalScheme(f, directional, load, ctx.study.faults, ctx.lvMaxKv, p);
   if (scheme.status === "infeasible") {
     yield { kind: "protection_scheme", description: scheme.reason, items: [], form: null };
     return;

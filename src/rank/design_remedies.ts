@@ -49,7 +49,8 @@ export function designRemedies(
     // The need's own cases first: most candidates fail there, at a fraction of the cost.
     const own = new Set(need.evidence.map((e) => e.caseId));
     const first = lean.cases.filter((x) => own.has(x.id));
-    if (first.length < lean.cases.length) {
+    // (Skipped when the evidence comes from the fault or protection study: no case to run.)
+    if (first.length > 0 && first.length < lean.cases.length) {
       const quick = studyCases(trial, { ...lean, cases: first });
       const left = quick.findings.filter((f) => needKindOf(form, f) === need.kind).length;
       if (quick.status !== "studied") return "the feeder does not solve with it";

@@ -14,6 +14,7 @@
 import type { FeederForm, FormDevice } from "../model/feeder_form.ts";
 import type { RelayStage } from "../model/network.ts";
 import type { FaultSettings } from "./fault_settings.ts";
+import type { ProtectionSettings } from "./protection_settings.ts";
 import { prepareFaultModel } from "./fault_branch_currents.ts";
 import { protectiveDevices, simulateFaultProtection } from "./simulate_fault_protection.ts";
 import { INVERSE_CURVES } from "./overcurrent_time.ts";
@@ -43,23 +44,6 @@ export type SchemeResult =
   }
   | { readonly status: "infeasible"; readonly reason: string };
 
-export interface SchemeOptions {
-  readonly intervalS: number;
-  readonly sensitivityFactor: number;
-  /** Pickup at least this multiple of the largest load current through the device. */
-  readonly loadMargin: number;
-  readonly minTms: number;
-  readonly maxTms: number;
-}
-
-export const DEFAULT_SCHEME_OPTIONS: SchemeOptions = {
-  intervalS: 0.3,
-  sensitivityFactor: 1.5,
-  loadMargin: 1.25, // common practice: pickup 1.2–1.5 × the largest load current
-  minTms: 0.05,
-  maxTms: 1.2,
-};
-
 /** The graded stage of a device: its first inverse-time phase stage. */
 function gradedStage(d: FormDevice): { relay: string; stage: RelayStage } | null {
   for (const r of d.relays) {
@@ -78,7 +62,7 @@ export function designDirectionalScheme(
   loadCurrentA: ReadonlyMap<string, number>,
   faults: FaultSettings,
   lvMaxKv: number,
-  o: SchemeOptions = DEFAULT_SCHEME_OPTIONS,
+  o: ProtectionSettings,
 ): SchemeResult {
   const devices = protectiveDevices(form);
   const graded = devices.flatMap((d) => {
@@ -179,7 +163,7 @@ export function designDirectionalScheme(
   const result = gradeTimeMultipliers({
     relays: graded.map((g) => ({ id: g.device.id, minTms: o.minTms, maxTms: o.maxTms })),
     pairs,
-    intervalS: o.intervalS,
+    intervalS: o.coordinationIntervalS,
   });
   if (result.status === "infeasible") return result;
   const round = (x: number) => Math.ceil(x * 1000) / 1000; // settable steps of 0.001, never faster

@@ -23,7 +23,14 @@ Deno.test("designDirectionalScheme() makes far-end generation coordinate on both
   );
   assertEquals([...directional], ["CB2"]);
   const load = new Map([["CB1", 150], ["CB2", 80]]); // invented peak load currents, A
-  const scheme = designDirectionalScheme(form, directional, load, DEFAULT_FAULT_SETTINGS, 1);
+  const scheme = designDirectionalScheme(
+    form,
+    directional,
+    load,
+    DEFAULT_FAULT_SETTINGS,
+    1,
+    DEFAULT_PROTECTION_SETTINGS,
+  );
   assert(scheme.status === "proposed");
   const r2 = scheme.settings.find((s) => s.device === "CB2")!;
   assertEquals(r2.direction, "forward");
@@ -61,6 +68,7 @@ Deno.test("designDirectionalScheme() reports a relay that cannot tell load from 
     new Map([["CB2", 5000]]),
     DEFAULT_FAULT_SETTINGS,
     1,
+    DEFAULT_PROTECTION_SETTINGS,
   );
   assertEquals(scheme.status, "infeasible");
 });
