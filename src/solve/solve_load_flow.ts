@@ -34,6 +34,8 @@ export function solveLoadFlow(
   lfCase: LoadFlowCase,
   options: LoadFlowOptions = DEFAULT_LOAD_FLOW_OPTIONS,
   prepared: PreparedLoadFlow = prepareLoadFlow(form),
+  /** Start voltages (pu) instead of the flat start: a solved neighbouring case. */
+  start?: { readonly vRePu: Float64Array; readonly vImPu: Float64Array },
 ): SolvedCase {
   const n = form.nBus;
   const nb = form.nBranch;
@@ -108,7 +110,7 @@ export function solveLoadFlow(
   form.transformers.forEach((_, ti) => setRatio(ti));
   ratioFactors(aRe, aIm, gRe, gIm, hasRatio);
 
-  // Flat start rotated through the transformers: a sweep with no current.
+  // Flat start rotated through the transformers (a sweep with no current), or the start given.
   const th0 = form.source.angleDeg * Math.PI / 180;
   vRe[0] = form.source.vSetPu * Math.cos(th0);
   vIm[0] = form.source.vSetPu * Math.sin(th0);
@@ -130,7 +132,11 @@ export function solveLoadFlow(
       accRe,
       accIm,
     );
-  sweep();
+  if (start === undefined) sweep();
+  else {
+    vRe.set(start.vRePu.subarray(1, n), 1);
+    vIm.set(start.vImPu.subarray(1, n), 1);
+  }
 
   let iterations = 0;
   let residual = Infinity;
