@@ -34,7 +34,8 @@ export interface ConfirmOptions {
 export function confirmCapacity(
   evaluate: (pKw: number) => TrialMargin,
   guessKw: number,
-  slopePerKw: number,
+  /** The screen's slope of its binding term, and that term (code and element) — null: unknown. */
+  screenSlope: { readonly perKw: number; readonly code: string; readonly whereId: string } | null,
   o: ConfirmOptions,
 ): Confirmed {
   const tol = (p: number) => Math.max(o.toleranceKw, o.tolerancePercent / 100 * p);
@@ -68,18 +69,29 @@ export function confirmCapacity(
     }
     if (hi - lo <= tol(lo) || evaluations >= maxEval) break;
     slow = Number.isFinite(width) && hi - lo > 0.6 * width ? slow + 1 : 0;
-    let s = slopePerKw;
+    // The slope of the trial's binding term: the secant of the last two trials when they bind
+    // on the same term, else the screen's when it names that term. A step may only end the
+    // search when its slope belongs to the term that binds.
+    let s = 0, own = false;
+    if (screenSlope !== null && screenSlope.perKw > 0) {
+      s = screenSlope.perKw;
+      own = screenSlope.code === m.code && screenSlope.whereId === m.where.id;
+    }
     if (
       prev !== null && Number.isFinite(prev.margin) && Number.isFinite(m.margin) &&
       prev.code === m.code && prev.where.id === m.where.id && x !== prevX
     ) {
       const secant = (m.margin - prev.margin) / (x - prevX);
-      if (secant > 0) s = secant;
+      if (secant > 0) {
+        s = secant;
+        own = true;
+      }
     }
     let next = s > 0 && Number.isFinite(m.margin) ? x - m.margin / s : NaN;
-    if (Number.isFinite(next) && Math.abs(next - x) <= tol(x) / 2) {
+    if (own && Number.isFinite(next) && Math.abs(next - x) <= tol(x) / 2) {
       if (m.margin <= 0) return answer(x, m);
-      if (next > lo) return answer(next, m);
+      // Past the limit by less than half the tolerance, on this term only.
+      if (next > lo && m.runnerUp <= 0) return answer(next, m);
     }
     if (!(next > lo && next < hi) || slow >= 2) {
       next = Number.isFinite(hi) ? (lo + hi) / 2 : Math.min(o.maxKw, Math.max(2 * x, x + tol(x)));

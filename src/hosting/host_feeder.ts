@@ -130,7 +130,7 @@ export function hostFeeder(
       const c = confirmCapacity(
         (pKw) => trialMargin(base, unitAt(base, k, pKw, strategy)),
         s.pKw,
-        s.slopePerKw,
+        { perKw: s.slopePerKw, code: s.code, whereId: s.where.id },
         opts,
       );
       return { k, screenedKw: s.pKw, confirmed: c, loadFlows: base.loadFlows - before };
@@ -377,7 +377,7 @@ function spreadCapacity(
         false,
       ),
     Math.max(guessKw, opts.toleranceKw),
-    0,
+    null,
     { ...opts, maxKw: opts.maxKw * 4 },
   );
 }

@@ -32,6 +32,8 @@ export type HostingCriterion =
 
 export interface TrialMargin {
   readonly margin: number;
+  /** The second largest term: above zero, more than one limit is crossed. */
+  readonly runnerUp: number;
   readonly criterion: HostingCriterion;
   /** For protection: the protection finding's code; otherwise the limit-check code. */
   readonly code: string;
@@ -68,6 +70,7 @@ export function measureTrial(
   if (!r.converged) {
     return {
       margin: Infinity,
+      runnerUp: Infinity,
       criterion: "no_solution",
       code: "loadflow.not_solved",
       where: { kind: "feeder", id: trial.feederId },
@@ -82,10 +85,13 @@ export function measureTrial(
     settings.checks,
     base.skip,
   );
-  let margin = lim.margin, code = lim.code, where = lim.where;
+  let margin = lim.margin, runnerUp = lim.runnerUp, code = lim.code, where = lim.where;
   let criterion: HostingCriterion = CRITERION_OF_CODE[lim.code] ?? "overvoltage";
   const take = (m: number, c: HostingCriterion, k: string, w: FindingPlace) => {
-    if (m > margin) {
+    if (m <= margin) {
+      if (m > runnerUp) runnerUp = m;
+    } else {
+      runnerUp = margin;
       margin = m;
       criterion = c;
       code = k;
@@ -139,7 +145,7 @@ export function measureTrial(
       }
     }
   }
-  return { margin, criterion, code, where, result: r };
+  return { margin, runnerUp, criterion, code, where, result: r };
 }
 
 /**

@@ -39,9 +39,19 @@ export interface ScreenedBus {
   readonly where: FindingPlace;
   /** d(margin)/dP of the binding term at pKw, margin units per kW (see hosting_margin.ts). */
   readonly slopePerKw: number;
+  /** The binding term's check code, as the trial margin names it. */
+  readonly code: string;
 }
 
 const TERMS = 3; // band, change, rapid
+/** The trial margin's code of each criterion the screen can name. */
+const CODE: Partial<Record<HostingCriterion, string>> & Record<"search_range", string> = {
+  overvoltage: "voltage.above_band",
+  voltage_change: "voltage.dg_change",
+  rapid_change: "hosting.rapid_change",
+  thermal: "thermal.overload",
+  search_range: "hosting.range",
+};
 const CRITERIA: readonly HostingCriterion[] = ["overvoltage", "voltage_change", "rapid_change"];
 
 /** The screened load-flow capacity of every bus (index 0, the source bus, gets the range). */
@@ -103,11 +113,17 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
   const revKw = new Float64Array(n).fill(Infinity), revAt = new Int32Array(n).fill(-1);
   const { headLimitKw, transformerLimitKw } = hosting.reversePower;
   const ownRev = new Float64Array(n).fill(Infinity);
+  // The element the trial margin names (device or transformer id) and its code.
+  const revId: string[] = new Array(n).fill(""), revCode: string[] = new Array(n).fill("");
   if (headLimitKw !== null) {
     for (const d of form.devices) {
       if (!d.isHead || d.branch >= n - 1 || -solved.pFromKw[d.branch]! > headLimitKw) continue;
-      const k = d.branch + 1;
-      ownRev[k] = Math.min(ownRev[k]!, headLimitKw + solved.pFromKw[d.branch]!);
+      const k = d.branch + 1, lim = headLimitKw + solved.pFromKw[d.branch]!;
+      if (lim < ownRev[k]!) {
+        ownRev[k] = lim;
+        revId[k] = d.id;
+        revCode[k] = "flow.reverse_head";
+      }
     }
   }
   if (transformerLimitKw !== null) {
@@ -117,7 +133,12 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
       if (form.branchKind[b] !== BRANCH_TRANSFORMER || -solved.pFromKw[b]! > transformerLimitKw) {
         continue;
       }
-      ownRev[b + 1] = Math.min(ownRev[b + 1]!, transformerLimitKw + solved.pFromKw[b]!);
+      const lim = transformerLimitKw + solved.pFromKw[b]!;
+      if (lim < ownRev[b + 1]!) {
+        ownRev[b + 1] = lim;
+        revId[b + 1] = t.id;
+        revCode[b + 1] = "flow.reverse_transformer";
+      }
     }
   }
   for (let k = 1; k < n; k++) {
@@ -138,6 +159,7 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
     criterion: "search_range",
     where: place(form, "bus", 0),
     slopePerKw: 0,
+    code: CODE.search_range,
   });
   for (let k = 1; k < n; k++) {
     const vr0 = solved.vRePu[k]!, vi0 = solved.vImPu[k]!, v0 = Math.hypot(vr0, vi0);
@@ -149,12 +171,14 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
       : 0;
     let vk = v0;
     let best: ScreenedBus = out[0]!;
-    for (let pass = 0; pass < (r.mode === "volt_var" ? 3 : 1); pass++) {
+    // Passes: |V_k| at the answer (the unit's current shrinks as its voltage rises), and
+    // volt-var's Q at that voltage.
+    for (let pass = 0; pass < (r.mode === "volt_var" ? 3 : 2); pass++) {
       if (r.mode === "volt_var") q = interpolateCurve(r.points, vk) * oversize;
       // w = (1 − jq)·e^{jθ}/|V_k|: injected current per pu of active power.
       const wr = (cth + q * sth) / vk, wi = (sth - q * cth) / vk;
       let pBest = maxPu, crit: HostingCriterion = "search_range", where = place(form, "bus", k);
-      let slope = 0;
+      let slope = 0, code = CODE.search_range;
       for (let m = k; m > 0; m = parent[m]!) {
         const ur = zpRe[m]! * wr - zpIm[m]! * wi, ui = zpRe[m]! * wi + zpIm[m]! * wr;
         const vmr = solved.vRePu[m]!, vmi = solved.vImPu[m]!, vm = Math.hypot(vmr, vmi);
@@ -185,11 +209,11 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
       if (revKw[k]! / 1000 < pBest) {
         pBest = Math.max(revKw[k]! / 1000, 0);
         crit = "reverse_power";
-        const b = revAt[k]! - 1;
-        where = place(form, "branch", b);
+        where = { kind: "branch", id: revId[revAt[k]!]! };
+        code = revCode[revAt[k]!]!;
         slope = 1 / 1000;
-      }
-      best = { pKw: pBest * 1000, criterion: crit, where, slopePerKw: slope };
+      } else code = CODE[crit] ?? CODE.search_range;
+      best = { pKw: pBest * 1000, criterion: crit, where, slopePerKw: slope, code };
       vk = Math.hypot(
         vr0 + pBest * (zpRe[k]! * wr - zpIm[k]! * wi),
         vi0 + pBest * (zpRe[k]! * wi + zpIm[k]! * wr),

@@ -13,6 +13,8 @@ import type { LoadFlowResult } from "../solve/load_flow_types.ts";
 
 export interface LimitMargin {
   readonly margin: number;
+  /** The second largest term (−Infinity when there is one term or none). */
+  readonly runnerUp: number;
   /** The check and element of the largest term. */
   readonly code: string;
   readonly where: FindingPlace;
@@ -68,14 +70,20 @@ export function limitMargin(
   checks: CheckSelection,
   skip: MarginExclusions,
 ): LimitMargin {
-  let margin = -Infinity, code = "", where: FindingPlace = { kind: "feeder", id: form.feederId };
+  let margin = -Infinity, runnerUp = -Infinity, code = "";
+  let where: FindingPlace = { kind: "feeder", id: form.feederId };
   eachTerm(form, result, base, limits, checks, (m, c, kind, i) => {
-    if (m <= margin || skip.has(`${c}|${i}`)) return;
+    if (m <= runnerUp || skip.has(`${c}|${i}`)) return;
+    if (m <= margin) {
+      runnerUp = m;
+      return;
+    }
+    runnerUp = margin;
     margin = m;
     code = c;
     where = { kind, id: kind === "bus" ? form.busIds[i]! : form.branchIds[i]! };
   });
-  return { margin, code, where };
+  return { margin, runnerUp, code, where };
 }
 
 /** The terms already past their limit in a solved case, to leave out of later margins. */
