@@ -8,6 +8,7 @@ import { loadPipelineConfig } from "../src/pipeline/load_pipeline_config.ts";
 import { runStudy } from "../src/cli/run_study.ts";
 import { partitionNetwork } from "../src/cli/partition_network.ts";
 import { writeSynthFleet } from "../src/cli/write_fleet.ts";
+import { validateFleet } from "../src/pipeline/validate_fleet.ts";
 import { readTree } from "./fixtures/read_tree.ts";
 
 const TMP = "reports/.test-tmp/parts";
@@ -69,6 +70,32 @@ Deno.test("partitionNetwork() reads an export whole when an edge table lacks its
     const lines = await Deno.readTextFile(`${TMP}/net/lines.csv`);
     await Deno.writeTextFile(`${TMP}/net/lines.csv`, lines.replace(/^id,from,/, "id,start,"));
     assertEquals(await partitionNetwork(`${TMP}/net`, `${TMP}/p`, 40), undefined);
+  } finally {
+    await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  }
+});
+
+Deno.test("partitionNetwork() sends queue and forecast rows to their feeder's part, an unknown feeder's to the first", async () => {
+  await Deno.remove(TMP, { recursive: true }).catch(() => {});
+  try {
+    await Deno.mkdir(`${TMP}/net`, { recursive: true });
+    for await (const e of Deno.readDir("data-samples/norvessa")) {
+      if (e.name.endsWith(".csv")) {
+        await Deno.copyFile(`data-samples/norvessa/${e.name}`, `${TMP}/net/${e.name}`);
+      }
+    }
+    const forecast = await Deno.readTextFile(`${TMP}/net/generation_forecast.csv`);
+    await Deno.writeTextFile(`${TMP}/net/generation_forecast.csv`, forecast + "MOR-L9,1\n");
+    const parts = await partitionNetwork(`${TMP}/net`, `${TMP}/p`, 40);
+    assertEquals(parts?.count, 4);
+    let unknown = 0, withForecast = 0, applications = 0;
+    for (let k = 0; k < parts!.count; k++) {
+      const r = await validateFleet(parts!.source(k));
+      unknown += r.diagnostics.filter((d) => d.code === "feeder.unknown").length;
+      withForecast += r.value.forms.filter((f) => f.forecastGenerationMw !== null).length;
+      applications += r.value.forms.reduce((n, f) => n + f.applications.length, 0);
+    }
+    assertEquals([unknown, withForecast, applications], [1, 13, 7]);
   } finally {
     await Deno.remove(TMP, { recursive: true }).catch(() => {});
   }

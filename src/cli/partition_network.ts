@@ -2,13 +2,16 @@
  * Splits a network export into parts that can be validated and studied one after the
  * other, so that memory follows the largest part, not the fleet. A first pass reads only
  * the connecting columns (buses, both ends of lines, transformers and switches, the device
- * of each relay stage) and groups the buses that any edge joins — open switches and lines
- * out of service included, so that nothing a feeder's study needs ends up in another part;
- * whole groups are packed into parts of at most `maxBuses` buses (a larger group is a part
- * of its own). A second pass copies every row to its part's folder on disk with its
- * original line number beside it, so every diagnostic still points at the export.
- * Tables that belong to no bus (settings, line types, conductors, geometry, curves) go to
- * every part; their diagnostics repeat and are told once by the caller.
+ * of each relay stage, the feeder of each head device) and groups the buses that any edge
+ * joins — open switches and lines out of service included, so that nothing a feeder's
+ * study needs ends up in another part; whole groups are packed into parts of at most
+ * `maxBuses` buses (a larger group is a part of its own). A second pass copies every row
+ * to its part's folder on disk with its original line number beside it, so every
+ * diagnostic still points at the export.
+ * Forecast rows go to the part of their feeder's head device (to the first part when no
+ * device heads that feeder). Tables that belong to no bus (settings, line types,
+ * conductors, geometry, curves) go to every part; their diagnostics repeat and are told
+ * once by the caller.
  */
 import Papa from "papaparse";
 import { join } from "node:path";
@@ -26,6 +29,7 @@ const BUS_COLUMNS: Readonly<Record<string, readonly string[]>> = {
   "loads.csv": ["bus"],
   "shunts.csv": ["bus"],
   "generators.csv": ["bus"],
+  "generation_queue.csv": ["bus_id"],
 };
 const EDGE_TABLES = ["lines.csv", "transformers.csv", "switches.csv"];
 
@@ -92,13 +96,15 @@ export async function partitionNetwork(
   };
   const busOf = (cell: string | undefined) => index.get((cell ?? "").trim().toLowerCase());
   const switchBus = new Map<string, number>();
+  const headBus = new Map<string, number>();
   let headersUsable = true;
   for (const file of EDGE_TABLES) {
-    let cols: number[] = [], sid = -1;
+    let cols: number[] = [], sid = -1, headCol = -1;
     await streamTable(join(dir, file), (row, isHeader) => {
       if (isHeader) {
         cols = columnIndex(row, BUS_COLUMNS[file]!);
         sid = columnIndex(row, ["id"])[0]!;
+        headCol = columnIndex(row, ["heads_feeder"])[0]!;
         if (cols.includes(-1)) headersUsable = false;
         return;
       }
@@ -106,6 +112,8 @@ export async function partitionNetwork(
       if (a !== undefined && b !== undefined) up[find(a)] = find(b);
       if (file === "switches.csv" && (a ?? b) !== undefined) {
         switchBus.set((row.cells[sid] ?? "").trim().toLowerCase(), (a ?? b)!);
+        const head = (row.cells[headCol] ?? "").trim().toLowerCase();
+        if (head !== "" && !headBus.has(head)) headBus.set(head, (a ?? b)!);
       }
     });
   }
@@ -164,23 +172,30 @@ export async function partitionNetwork(
       if (sizes[k]! > 1 << 16) flush(k);
     };
     const busCols = BUS_COLUMNS[spec.file];
-    let cols: number[] = [], deviceCol = -1;
+    let cols: number[] = [], deviceCol = -1, feederCol = -1;
     const problems: CsvProblem[] = [];
     try {
       await streamTable(join(dir, spec.file), (row, isHeader) => {
         if (isHeader) {
           cols = busCols === undefined ? [] : columnIndex(row, busCols);
           deviceCol = columnIndex(row, ["device"])[0]!;
+          feederCol = columnIndex(row, ["feeder_id"])[0]!;
           for (let k = 0; k < parts; k++) write(k, row);
           return;
         }
-        if (busCols === undefined && spec.file !== "relay_stages.csv") {
+        if (
+          busCols === undefined && spec.file !== "relay_stages.csv" &&
+          spec.file !== "generation_forecast.csv"
+        ) {
           for (let k = 0; k < parts; k++) write(k, row);
           return;
         }
         let k: number | undefined;
         if (spec.file === "relay_stages.csv") {
           const b = switchBus.get((row.cells[deviceCol] ?? "").trim().toLowerCase());
+          k = b === undefined ? undefined : partOfRoot[find(b)]!;
+        } else if (spec.file === "generation_forecast.csv") {
+          const b = headBus.get((row.cells[feederCol] ?? "").trim().toLowerCase());
           k = b === undefined ? undefined : partOfRoot[find(b)]!;
         } else {
           for (const c of cols) k ??= partOfBus(row.cells[c]);

@@ -9,6 +9,7 @@ import { readTableRows, type TableResult } from "./read_table.ts";
 import type { TableSpec } from "./table_kit.ts";
 import * as net from "./tables_network.ts";
 import * as dev from "./tables_devices.ts";
+import * as plan from "./tables_planning.ts";
 
 export const TABLES = {
   settings: net.settingsTable,
@@ -27,6 +28,8 @@ export const TABLES = {
   reactiveCurves: dev.reactiveCurveTable,
   relayStages: dev.relayStageTable,
   fuseCurves: dev.fuseCurveTable,
+  generationQueue: plan.generationQueueTable,
+  generationForecast: plan.generationForecastTable,
 } as const;
 
 type Tables = typeof TABLES;

@@ -202,6 +202,7 @@ export function readTableRows<U extends string, T>(
   const colIndex = new Map<string, number>();
   columns.forEach((c, i) => c !== undefined && colIndex.set(c, i));
   const keys = new Map<string, number>();
+  const uniqueSeen = new Map<string, Map<string, number>>();
   for (let r = 1; r < rows.length; r++) {
     const row = rows[r]!;
     const record: Record<string, Cell> = {};
@@ -274,6 +275,32 @@ export function readTableRows<U extends string, T>(
           },
         ));
       } else if (complete) keys.set(keyText, row.line);
+    }
+    for (const col of spec.unique ?? []) {
+      const v = parsed.success ? (parsed.data as Record<string, unknown>)[col] : raw[col];
+      if (v === undefined || v === "") continue;
+      const text = String(v).toLowerCase();
+      const seenOn = uniqueSeen.get(col) ?? new Map<string, number>();
+      uniqueSeen.set(col, seenOn);
+      const first = seenOn.get(text);
+      if (first === undefined) {
+        seenOn.set(text, row.line);
+        continue;
+      }
+      ok = false;
+      const idx = colIndex.get(col);
+      diagnostics.push(makeDiagnostic(
+        "value.duplicate",
+        "error",
+        `Cannot read ${label} of ${file}: ${col} "${raw[col]}" is already used on line ${first}`,
+        {
+          at: idx === undefined
+            ? { file, line: row.line, field: col }
+            : { file, line: row.line, column: idx + 1, field: col },
+          found: raw[col] ?? "",
+          expected: "a value not used on another row",
+        },
+      ));
     }
     if (ok && parsed.success) out.push({ value: parsed.data, line: row.line });
     else rejected.push({ line: row.line, cells: raw, reason: label });

@@ -21,6 +21,8 @@ export interface TableSpec<U extends string, T> {
   readonly required: boolean;
   /** Columns that together identify a row (duplicates are errors). */
   readonly key: readonly string[];
+  /** Further columns whose values must each differ from row to row (duplicates are errors). */
+  readonly unique?: readonly string[];
   /** Columns that name buses, used to attribute a rejected row to its feeder. */
   readonly busColumns: readonly string[];
   /** Quantity columns and the unit each is converted to. */

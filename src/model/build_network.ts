@@ -11,6 +11,7 @@ import { resolveLineTypes } from "./resolve_line_types.ts";
 import { groupFuseCurves, groupReactiveCurves, toGenerator, toLoad } from "./build_devices.ts";
 import { buildLines, buildSwitches, buildTransformers } from "./build_branches.ts";
 import { buildRelays } from "./build_relays.ts";
+import { buildPlanningInputs } from "./build_planning.ts";
 import { createBuildContext } from "./_build_context.ts";
 import { rejectedIds, sameLevel, VOLTAGE_LEVEL_TOLERANCE } from "./_levels.ts";
 
@@ -150,6 +151,7 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
   }
 
   const relays = buildRelays(ctx, switches);
+  const { applications, generationForecasts } = buildPlanningInputs(ctx);
   const taintedBuses = ctx.taintedBuses();
   const placeholderBuses = ctx.placeholderBuses;
   const placeholderEdges = ctx.placeholderEdges;
@@ -168,6 +170,8 @@ export function buildNetwork(tables: NetworkTables): BuildNetworkResult {
       reactiveCurves: curves.value,
       relays,
       fuseCurves: fuseCurves.value,
+      applications,
+      generationForecasts,
       taintedBuses,
       headers: ctx.headers,
       placeholderBuses: [...placeholderBuses].filter((b) => b !== ""),

@@ -19,6 +19,7 @@ import { phaseLetters } from "./phases.ts";
 import { transformerRatio } from "./transformer_ratio.ts";
 import { elementsOn, indexNetwork, type NetworkIndex } from "./network_index.ts";
 import type { EdgeRef, FeederTopology } from "./split_feeders.ts";
+import { feederApplications, feederForecastMw } from "./_feeder_planning.ts";
 
 const SQRT3 = Math.sqrt(3);
 
@@ -272,6 +273,8 @@ export function compileFeeder(
     },
     reactiveCurves: network.reactiveCurves.filter((c) => curveIds.has(c.id.toLowerCase())),
     openPoints: topo.openPoints,
+    applications: feederApplications(index, topo.busIds, topo.substationBusCount),
+    forecastGenerationMw: feederForecastMw(index, topo.feederIds),
   };
 }
 

@@ -130,6 +130,18 @@ export interface FormGenerators {
   readonly rideThrough: readonly (string | null)[];
 }
 
+/** A generation application waiting to connect, as the queue table gives it. */
+export interface FormApplication {
+  readonly id: string;
+  /** Bus index in this form. */
+  readonly bus: number;
+  readonly pKw: number;
+  readonly kind: "converter" | "synchronous";
+  /** Id of a reactive-power strategy of the pipeline, or null for the first one. */
+  readonly strategy: string | null;
+  readonly position: number;
+}
+
 export interface FeederForm {
   readonly feederId: string;
   readonly feederIds: readonly string[];
@@ -181,6 +193,10 @@ export interface FeederForm {
   readonly generators: FormGenerators;
   readonly reactiveCurves: readonly ReactiveCurve[];
   readonly openPoints: readonly OpenPoint[];
+  /** Generation applications on this feeder's buses, in queue order (position ascending). */
+  readonly applications: readonly FormApplication[];
+  /** Forecast generation for this feeder, MW, or null where the forecast table has no row. */
+  readonly forecastGenerationMw: number | null;
 }
 
 /** The array buffers of a form, for postMessage(form, { transfer }). */

@@ -253,6 +253,27 @@ export interface FuseCurve {
   readonly at: SourceLocation;
 }
 
+/** A generation application waiting to connect (generation_queue.csv). */
+export interface Application {
+  readonly id: string;
+  readonly busId: string;
+  readonly pKw: number;
+  readonly kind: "converter" | "synchronous";
+  /** Id of a reactive-power strategy of the pipeline, or null for the first one. */
+  readonly strategy: string | null;
+  /** Place in the queue, 1 first. */
+  readonly position: number;
+  readonly at: SourceLocation;
+}
+
+/** Forecast generation of one feeder (generation_forecast.csv). */
+export interface GenerationForecast {
+  /** As the table spells it; matched to feeders case-insensitively. */
+  readonly feederId: string;
+  readonly pKw: number;
+  readonly at: SourceLocation;
+}
+
 export interface NetworkSettings {
   readonly company?: string;
   readonly frequencyHz: number;
@@ -275,6 +296,10 @@ export interface Network {
   readonly reactiveCurves: readonly ReactiveCurve[];
   readonly relays: readonly Relay[];
   readonly fuseCurves: readonly FuseCurve[];
+  /** Generation applications whose bus exists, in queue order (position ascending). */
+  readonly applications: readonly Application[];
+  /** Forecast generation per feeder id, in file order. */
+  readonly generationForecasts: readonly GenerationForecast[];
   /**
    * Buses that some input problem makes untrustworthy: the feeders holding them are set
    * aside. Keys are lower-case bus ids.

@@ -3,8 +3,10 @@
  * feeder depends on the feeder's size, not the fleet's. Keys are lower-case ids.
  */
 import type {
+  Application,
   Bus,
   FuseCurve,
+  GenerationForecast,
   Generator,
   GridSource,
   Line,
@@ -20,6 +22,8 @@ export interface BusElements {
   readonly loads: Load[];
   readonly generators: Generator[];
   readonly shunts: Shunt[];
+  /** Generation applications, in queue order. */
+  readonly applications: Application[];
   /** Lines and switches with this bus as their `from` end. */
   readonly linesFrom: Line[];
   readonly switchesFrom: SwitchDevice[];
@@ -34,6 +38,8 @@ export interface NetworkIndex {
   readonly relaysByDevice: ReadonlyMap<string, readonly Relay[]>;
   /** What hangs on each bus; undefined for a bus with nothing. */
   readonly atBus: ReadonlyMap<string, BusElements>;
+  /** Forecast generation by feeder id. */
+  readonly forecastByFeeder: ReadonlyMap<string, GenerationForecast>;
 }
 
 const lower = (s: string) => s.toLowerCase();
@@ -44,7 +50,14 @@ export function indexNetwork(network: Network): NetworkIndex {
     const k = lower(busId);
     let e = atBus.get(k);
     if (e === undefined) {
-      e = { loads: [], generators: [], shunts: [], linesFrom: [], switchesFrom: [] };
+      e = {
+        loads: [],
+        generators: [],
+        shunts: [],
+        applications: [],
+        linesFrom: [],
+        switchesFrom: [],
+      };
       atBus.set(k, e);
     }
     return e;
@@ -52,6 +65,7 @@ export function indexNetwork(network: Network): NetworkIndex {
   for (const x of network.loads) at(x.busId).loads.push(x);
   for (const x of network.generators) at(x.busId).generators.push(x);
   for (const x of network.shunts) at(x.busId).shunts.push(x);
+  for (const x of network.applications) at(x.busId).applications.push(x);
   for (const x of network.lines) at(x.fromBusId).linesFrom.push(x);
   for (const x of network.switches) at(x.fromBusId).switchesFrom.push(x);
   const relaysByDevice = new Map<string, Relay[]>();
@@ -68,6 +82,7 @@ export function indexNetwork(network: Network): NetworkIndex {
     switchById: new Map(network.switches.map((s) => [lower(s.id), s])),
     relaysByDevice,
     atBus,
+    forecastByFeeder: new Map(network.generationForecasts.map((f) => [lower(f.feederId), f])),
   };
 }
 

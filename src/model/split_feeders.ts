@@ -302,6 +302,32 @@ export function splitFeeders(
       ));
     }
   }
+  for (const a of network.applications) {
+    const v = g.index(a.busId);
+    if (v === undefined || subOf[v]! < 0) continue;
+    diagnostics.push(makeDiagnostic(
+      "topology.no_feeder",
+      "warning",
+      `Application "${a.id}" at bus "${a.busId}" is reached from a grid source without passing a ` +
+        "feeder-head device; it belongs to no feeder and is not studied",
+      { at: locateField(network.headers, a.at, "bus_id") },
+    ));
+  }
+  // Forecast rows are matched to feeders by id, as feeder ids are compared everywhere.
+  const feederIdSet = new Set(feeders.flatMap((f) => f.feederIds.map((id) => id.toLowerCase())));
+  for (const f of network.generationForecasts) {
+    if (feederIdSet.has(f.feederId.toLowerCase())) continue;
+    diagnostics.push(makeDiagnostic(
+      "feeder.unknown",
+      "warning",
+      `Generation forecast for feeder "${f.feederId}" is not used: no feeder-head device heads a feeder of that id`,
+      {
+        at: locateField(network.headers, f.at, "feeder_id"),
+        found: f.feederId,
+        expected: "the id of a feeder (heads_feeder of switches.csv)",
+      },
+    ));
+  }
 
   const islands: Island[] = islandComps.map((c) => {
     const members: string[] = [];

@@ -190,3 +190,23 @@ Deno.test("splitFeeders() reports one feeder id heading two separate networks", 
   assertEquals(d.at, { file: "switches.csv", line: 3 });
   assert(feeders.some((f) => f.setAside));
 });
+
+Deno.test("splitFeeders() warns of a forecast row for a feeder id that no feeder has", async () => {
+  const { feeders, diagnostics } = await split({
+    ...TWO_FEEDERS,
+    // f2 matches F2 (ids compare case-insensitively); F7 heads nothing.
+    "generation_forecast.csv": "feeder_id,forecast [MW]\nf2,1\nF7,2\n",
+  });
+  const hits = diagnostics.filter((d) => d.code === "feeder.unknown");
+  assertEquals(hits.map((d) => [d.severity, d.found, d.at]), [
+    ["warning", "F7", { file: "generation_forecast.csv", line: 3, column: 1, field: "feeder_id" }],
+  ]);
+  assert(feeders.every((f) => !f.setAside));
+});
+
+Deno.test("splitFeeders() counts every feeder id, set-aside and unfed ones too, as known to the forecast", async () => {
+  const files = edit("switches.csv", (t) => t + "CB9,X1,X2,breaker,closed,F9,630,20,\n");
+  files["generation_forecast.csv"] = "feeder_id,forecast [MW]\nF9,1\n";
+  const { diagnostics } = await split(files);
+  assertEquals(diagnostics.filter((d) => d.code === "feeder.unknown"), []);
+});
