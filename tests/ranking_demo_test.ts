@@ -25,7 +25,9 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
     assert(classAt.every((c, i) => i === 0 || classAt[i - 1]! <= c));
     // Besides the protection needs: a breaker below the fault level (safety), the thermal
     // needs by benefit per cost, then the planning one.
-    const core = run.ranking.filter((n) => !n.kind.startsWith("protection_"));
+    const core = run.ranking.filter((n) =>
+      !n.kind.startsWith("protection_") && n.kind !== "hosting_shortfall"
+    );
     assertEquals(core.map((n) => [n.feederId, n.kind]), [
       ["CTY-K4", "device_duty"],
       ["HTH-N2", "line_overload"],
@@ -33,6 +35,14 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
       ["CTY-K4", "line_overload"],
       ["MOR-L1", "voltage_change"],
     ]);
+    // Feeders whose capacity for new generation spread with demand falls short of their
+    // forecast (generation_forecast.csv) come last, in the hosting class.
+    const shortfall = run.ranking.filter((n) => n.kind === "hosting_shortfall");
+    assertEquals(shortfall.map((n) => n.feederId).sort(), ["HTH-N1", "MOR-L1"]);
+    for (const n of shortfall) {
+      assertEquals(n.needClass, "hosting");
+      assert(n.worst.value < n.worst.limit, n.summary);
+    }
     const perCost = core.slice(1, 4).map((n) => n.benefitPerCost!);
     assert(perCost[0]! >= perCost[1]! && perCost[1]! >= perCost[2]!);
     // The old 16 kA breaker gives way to the next standard rating that interrupts the

@@ -31,6 +31,7 @@ Deno.test("runStudy() writes the run folder, identical between runs but for run.
       "feeders/SOU-F5.json",
       "findings.csv",
       "fleet.json",
+      "hosting.csv",
       "protection.csv",
       "ranking.csv",
       "report.html",
@@ -73,9 +74,9 @@ Deno.test("runStudy() writes the same bytes with 1, 2 and 4 workers as in one th
       delete t["run.json"];
       trees.push(t);
     }
-    // 13 feeders, findings, diagnostics, ranking, fleet, faults, protection, buses, branches,
-    // report.
-    assertEquals(Object.keys(trees[0]!).length, 22);
+    // 13 feeders, findings, diagnostics, ranking, fleet, faults, protection, hosting, buses,
+    // branches, report.
+    assertEquals(Object.keys(trees[0]!).length, 23);
     for (const t of trees.slice(1)) assertEquals(t, trees[0]);
   } finally {
     await Deno.remove(TMP, { recursive: true }).catch(() => {});

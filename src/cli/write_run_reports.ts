@@ -19,6 +19,7 @@ import { createBranchParquetWriter } from "../report/branch_parquet.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
 import { faultsCsvHead, faultsCsvRows } from "../report/faults_csv.ts";
 import { protectionCsvHead, protectionCsvRows } from "../report/protection_csv.ts";
+import { hostingCsvHead, hostingCsvRows } from "../report/hosting_csv.ts";
 import { openAtomicFile } from "./open_atomic_file.ts";
 
 export interface RunReportInput {
@@ -60,6 +61,8 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
   await faults.write(encoder.encode(faultsCsvHead(provenance)));
   const protection = await openAtomicFile(join(outDir, "protection.csv"));
   await protection.write(encoder.encode(protectionCsvHead(provenance)));
+  const hosting = await openAtomicFile(join(outDir, "hosting.csv"));
+  await hosting.write(encoder.encode(hostingCsvHead(provenance)));
   const buses = await openAtomicFile(join(outDir, "buses.parquet"));
   const branches = await openAtomicFile(join(outDir, "branches.parquet"));
   const rows: FleetFeederRow[] = [];
@@ -76,6 +79,8 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
       if (faultRows !== "") await faults.write(encoder.encode(faultRows));
       const protectionRows = protectionCsvRows(file);
       if (protectionRows !== "") await protection.write(encoder.encode(protectionRows));
+      const hostingRows = hostingCsvRows(file);
+      if (hostingRows !== "") await hosting.write(encoder.encode(hostingRows));
       await branchWriter.addFeeder(file);
     }
     await busWriter.finish();
@@ -84,11 +89,13 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
     await branches.commit();
     await faults.commit();
     await protection.commit();
+    await hosting.commit();
   } finally {
     await buses.abandon();
     await branches.abandon();
     await faults.abandon();
     await protection.abandon();
+    await hosting.abandon();
   }
   const ranking = rankNeeds(needs, config.ranking);
   await writeFileAtomic(join(outDir, "ranking.csv"), rankingCsv(ranking, provenance));
@@ -104,6 +111,7 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
       "fleet.json",
       "faults.csv",
       "protection.csv",
+      "hosting.csv",
       "buses.parquet",
       "branches.parquet",
       "report.html",

@@ -88,7 +88,7 @@ export function confirmCapacity(
       }
     }
     let next = s > 0 && Number.isFinite(m.margin) ? x - m.margin / s : NaN;
-    if (own && Number.isFinite(next) && Math.abs(next - x) <= tol(x) / 2) {
+    if (own && Number.isFinite(next) && Math.abs(next - x) <= tol(x)) {
       if (m.margin <= 0) return answer(x, m);
       // Past the limit by less than half the tolerance, on this term only.
       if (next > lo && m.runnerUp <= 0) return answer(next, m);

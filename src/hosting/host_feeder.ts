@@ -83,6 +83,12 @@ export interface HostingOutcome {
 }
 
 const UNIT_ID = "hosting-unit";
+/**
+ * The fault criteria have no continuous margin (a finding appears or not) and each trial is a
+ * whole short-circuit and protection study: their limit is bracketed to 5 % or 25 kW.
+ */
+const FAULT_TOLERANCE_PERCENT = 5;
+const FAULT_TOLERANCE_KW = 25;
 
 export function hostFeeder(
   form: FeederForm,
@@ -124,15 +130,25 @@ export function hostFeeder(
   // Load-flow capacity of every bus and strategy.
   const perStrategy = hosting.strategies.map((strategy) => {
     const screened = screenHosting(base, strategy);
+    // What the screen leaves out (load voltage dependence, other units' controls, tap
+    // changers) varies slowly along the feeder: a bus starts from its screen scaled by the
+    // ratio its parent's confirmation found for the same criterion (parents come first).
+    const ratio = new Float64Array(form.nBus).fill(1);
+    const ratioFor = new Array<HostingCriterion | null>(form.nBus).fill(null);
     return buses.map((k) => {
-      const s = screened[k]!;
+      const s = screened[k]!, p = form.parent[k]!;
+      const c0 = ratioFor[p] === s.criterion ? ratio[p]! : 1;
       const before = base.loadFlows;
       const c = confirmCapacity(
         (pKw) => trialMargin(base, unitAt(base, k, pKw, strategy)),
-        s.pKw,
-        { perKw: s.slopePerKw, code: s.code, whereId: s.where.id },
+        s.pKw * c0,
+        { perKw: s.slopePerKw / c0, code: s.code, whereId: s.where.id },
         opts,
       );
+      if (c.criterion === s.criterion && s.pKw > 0 && c.pKw > 0) {
+        ratio[k] = c.pKw / s.pKw;
+        ratioFor[k] = s.criterion;
+      }
       return { k, screenedKw: s.pKw, confirmed: c, loadFlows: base.loadFlows - before };
     });
   });
@@ -171,7 +187,7 @@ export function hostFeeder(
     if (atUpper === null) return bound;
     // Bisection on [0, upper]: the fault criteria have no continuous margin.
     let lo = 0, hi = upper, why = atUpper;
-    while (hi - lo > Math.max(opts.toleranceKw, opts.tolerancePercent / 100 * lo)) {
+    while (hi - lo > Math.max(FAULT_TOLERANCE_KW, FAULT_TOLERANCE_PERCENT / 100 * lo)) {
       const mid = (lo + hi) / 2;
       const r = check(mid);
       if (r === null) lo = mid;

@@ -116,7 +116,7 @@ export const DEFAULT_HOSTING_SETTINGS: HostingSettings = {
   reversePower: { headLimitKw: null, transformerLimitKw: null },
   breakerDuty: true,
   protection: true,
-  protectionMaxBuses: 60,
+  protectionMaxBuses: 30,
   maxBuses: 5000,
   maxMw: 30,
   toleranceKw: 5,

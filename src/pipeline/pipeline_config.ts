@@ -43,6 +43,8 @@ import {
   rankingOptionsSchema,
   remedyOptionsSchema,
 } from "./_ranking_schema.ts";
+import { hostingSettingsSchema } from "./_hosting_schema.ts";
+import { DEFAULT_HOSTING_SETTINGS, type HostingSettings } from "../hosting/hosting_settings.ts";
 import { DEFAULT_FAULT_SETTINGS, type FaultSettings } from "../solve/fault_settings.ts";
 import {
   DEFAULT_PROTECTION_SETTINGS,
@@ -84,6 +86,7 @@ export interface PipelineConfig {
   readonly costs: CostTable;
   readonly remedies: RemedyOptions;
   readonly ranking: RankingOptions;
+  readonly hosting: HostingSettings;
   readonly name?: string | undefined;
   readonly description?: string | undefined;
   readonly cases: readonly PipelineCase[];
@@ -156,6 +159,7 @@ export const DEFAULT_PIPELINE: PipelineConfig = {
   costs: DEFAULT_COST_TABLE,
   remedies: DEFAULT_REMEDY_OPTIONS,
   ranking: DEFAULT_RANKING_OPTIONS,
+  hosting: DEFAULT_HOSTING_SETTINGS,
 };
 
 const L = DEFAULT_PIPELINE.limits, S = DEFAULT_PIPELINE.solver;
@@ -291,6 +295,7 @@ export const pipelineConfigSchema: z.ZodType<PipelineConfig, unknown> = z.strict
   costs: costTableSchema.prefault({}),
   remedies: remedyOptionsSchema.prefault({}),
   ranking: rankingOptionsSchema.prefault({}),
+  hosting: hostingSettingsSchema.prefault({}),
 });
 
 /**

@@ -26,6 +26,9 @@ import { checkFaults } from "../checks/check_faults.ts";
 import { checkProtection } from "../checks/check_protection.ts";
 import { coordinationCollector, type CoordinationRow } from "../report/coordination_table.ts";
 import type { ProtectionSettings } from "../solve/protection_settings.ts";
+import type { HostingSettings } from "../hosting/hosting_settings.ts";
+import { type FeederHosting, hostFeeder } from "../hosting/host_feeder.ts";
+import { checkHostingTarget } from "../hosting/hosting_findings.ts";
 
 export interface StudyCase extends LoadFlowCase {
   readonly label?: string | undefined;
@@ -44,6 +47,7 @@ export interface StudySettings extends CaseSettings {
   readonly protection: ProtectionSettings;
   readonly costs: CostTable;
   readonly remedies: RemedyOptions;
+  readonly hosting: HostingSettings;
 }
 
 export interface BusRow {
@@ -114,6 +118,8 @@ export interface FeederStudy extends CasesStudy {
   readonly needs: readonly Need[];
   readonly headroom: DgHeadroom | null;
   readonly devices: readonly DeviceCurves[];
+  /** Hosting capacity per bus and strategy (null when off or not studied). */
+  readonly hosting: FeederHosting | null;
 }
 
 export function studyFeeder(form: FeederForm, settings: StudySettings): FeederStudy {
@@ -133,11 +139,27 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
       coordinationCollector(form, coordination),
     )
     : [];
-  const findings = faults === null
-    ? cases.findings
-    : [...cases.findings, ...checkFaults(form, faults, settings.faults), ...protection].sort(
-      compareFindings,
-    );
+  const hosted = cases.status === "studied"
+    ? hostFeeder(
+      form,
+      settings,
+      settings.hosting,
+      faults === null ? null : {
+        settings: settings.faults,
+        protection: settings.protection,
+        study: faults,
+        protectionKeys: protectionOn
+          ? new Set(protection.map((f) => `${f.code}|${f.where.id}`))
+          : null,
+      },
+    )
+    : { hosting: null, diagnostics: [] };
+  const findings = [
+    ...cases.findings,
+    ...(faults === null ? [] : checkFaults(form, faults, settings.faults)),
+    ...protection,
+    ...(hosted.hosting === null ? [] : checkHostingTarget(form, hosted.hosting, settings.hosting)),
+  ].sort(compareFindings);
   const assessed = cases.status === "studied"
     ? assessFeeder(form, settings, findings)
     : { needs: [], headroom: null };
@@ -147,6 +169,7 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
     diagnostics: [
       ...cases.diagnostics,
       ...(faults?.diagnostics ?? []),
+      ...hosted.diagnostics,
       ...(faults !== null && settings.protection.enabled && !protectionOn
         ? [makeDiagnostic(
           "protection.too_large",
@@ -160,6 +183,7 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
     coordination: protectionOn ? coordination : null,
     ...assessed,
     devices: describeDevices(form),
+    hosting: hosted.hosting,
   };
 }
 

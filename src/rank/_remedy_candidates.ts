@@ -53,6 +53,9 @@ export const REMEDY_ORDER: Readonly<Record<NeedKind, readonly RemedyKind[]>> = {
   device_duty: ["switchgear"],
   protection_direction: ["protection_scheme"],
   protection_grading: ["protection_scheme"],
+  // The hosting study itself says which reactive strategy would do (the finding's message);
+  // works for capacity are the planner's choice among the per-bus binding criteria.
+  hosting_shortfall: [],
 };
 
 /**

@@ -20,6 +20,8 @@ export const NEED_RULES: Readonly<
   "thermal.overload": { needClass: "statutory", kind: "by_branch" },
   "fault.breaking_duty": { needClass: "safety", kind: "device_duty" },
   "fault.making_duty": { needClass: "safety", kind: "device_duty" },
+  // Too little room for the generation the feeder is expected to take.
+  "hosting.shortfall": { needClass: "hosting", kind: "hosting_shortfall" },
   // Generation feeding faults from the feeder end: the grading works one way only.
   ...Object.fromEntries(
     ["wrong_device", "reverse_pickup", "sympathetic_trip", "blinding", "needs_directional"].map(
@@ -54,6 +56,7 @@ const NEED_KIND_ORDER: readonly NeedKind[] = [
   "line_overload",
   "transformer_overload",
   "device_overload",
+  "hosting_shortfall",
 ];
 
 /** A need before its remedy is designed. */
@@ -88,6 +91,10 @@ export function excessPercent(f: Pick<Finding, "code" | "value" | "limit">): num
     // high or too low): the distance from the limit.
     const limit = Math.abs(f.limit);
     return limit > 0 ? 100 * Math.abs(f.value - f.limit) / limit : 100 * Math.abs(f.value);
+  }
+  if (f.code === "hosting.shortfall") {
+    // A capacity below its target: the shortfall, % of the target.
+    return f.limit > 0 ? 100 * Math.max(f.limit - f.value, 0) / f.limit : 0;
   }
   if (f.code === "voltage.above_band" || f.code === "voltage.below_band") {
     const margin = Math.abs(f.limit - 1);
@@ -184,6 +191,7 @@ const WHAT: Record<NeedKind, string> = {
   protection_direction:
     "Generation feeds faults from the feeder end: protection must become directional",
   protection_grading: "Protection settings do not coordinate",
+  hosting_shortfall: "Too little room for the generation expected on the feeder",
 };
 
 function summarize(kind: NeedKind, worst: Finding, places: number, cases: string[]): string {

@@ -24,7 +24,8 @@ export type NeedKind =
   | "device_overload"
   | "device_duty"
   | "protection_direction"
-  | "protection_grading";
+  | "protection_grading"
+  | "hosting_shortfall";
 
 /** One finding behind a need, reduced to what the evidence needs. */
 export interface NeedEvidence {

@@ -11,6 +11,7 @@ import type { CurvePoint, RelayStage } from "../model/network.ts";
 import type { FeederProvenance } from "./run_files.ts";
 import type { FaultStudy } from "../solve/study_faults.ts";
 import type { CoordinationRow } from "./coordination_table.ts";
+import type { FeederHosting } from "../hosting/host_feeder.ts";
 
 /** A switching device with the settings needed to draw its time–current curves. */
 export interface DeviceCurves {
@@ -46,6 +47,8 @@ export interface FeederFile {
   readonly needs: readonly Need[];
   readonly headroom: DgHeadroom | null;
   readonly devices: readonly DeviceCurves[];
+  /** Hosting capacity per bus and strategy (absent in older files, null when off). */
+  readonly hosting?: FeederHosting | null;
   readonly diagnostics: readonly Diagnostic[];
   readonly caution: string;
 }

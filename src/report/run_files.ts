@@ -149,6 +149,7 @@ export function feederJson(
       needs: study?.needs ?? [],
       headroom: study?.headroom ?? null,
       devices: study?.devices ?? [],
+      hosting: study?.hosting ?? null,
       diagnostics: study?.diagnostics ?? [],
       caution: CAUTION,
     },
