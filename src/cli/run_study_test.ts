@@ -33,6 +33,7 @@ Deno.test("runStudy() writes the run folder, identical between runs but for run.
       "fleet.json",
       "hosting.csv",
       "protection.csv",
+      "queue.csv",
       "ranking.csv",
       "report.html",
       "run.json",
@@ -74,9 +75,9 @@ Deno.test("runStudy() writes the same bytes with 1, 2 and 4 workers as in one th
       delete t["run.json"];
       trees.push(t);
     }
-    // 13 feeders, findings, diagnostics, ranking, fleet, faults, protection, hosting, buses,
-    // branches, report.
-    assertEquals(Object.keys(trees[0]!).length, 23);
+    // 13 feeders, findings, diagnostics, ranking, fleet, faults, protection, hosting, queue,
+    // buses, branches, report.
+    assertEquals(Object.keys(trees[0]!).length, 24);
     for (const t of trees.slice(1)) assertEquals(t, trees[0]);
   } finally {
     await Deno.remove(TMP, { recursive: true }).catch(() => {});

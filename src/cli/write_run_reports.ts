@@ -19,7 +19,12 @@ import { createBranchParquetWriter } from "../report/branch_parquet.ts";
 import { writeFileAtomic } from "./write_atomic.ts";
 import { faultsCsvHead, faultsCsvRows } from "../report/faults_csv.ts";
 import { protectionCsvHead, protectionCsvRows } from "../report/protection_csv.ts";
-import { hostingCsvHead, hostingCsvRows } from "../report/hosting_csv.ts";
+import {
+  hostingCsvHead,
+  hostingCsvRows,
+  queueCsvHead,
+  queueCsvRows,
+} from "../report/hosting_csv.ts";
 import { openAtomicFile } from "./open_atomic_file.ts";
 
 export interface RunReportInput {
@@ -63,6 +68,8 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
   await protection.write(encoder.encode(protectionCsvHead(provenance)));
   const hosting = await openAtomicFile(join(outDir, "hosting.csv"));
   await hosting.write(encoder.encode(hostingCsvHead(provenance)));
+  const queue = await openAtomicFile(join(outDir, "queue.csv"));
+  await queue.write(encoder.encode(queueCsvHead(provenance)));
   const buses = await openAtomicFile(join(outDir, "buses.parquet"));
   const branches = await openAtomicFile(join(outDir, "branches.parquet"));
   const rows: FleetFeederRow[] = [];
@@ -81,6 +88,8 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
       if (protectionRows !== "") await protection.write(encoder.encode(protectionRows));
       const hostingRows = hostingCsvRows(file);
       if (hostingRows !== "") await hosting.write(encoder.encode(hostingRows));
+      const queueRows = queueCsvRows(file);
+      if (queueRows !== "") await queue.write(encoder.encode(queueRows));
       await branchWriter.addFeeder(file);
     }
     await busWriter.finish();
@@ -90,12 +99,14 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
     await faults.commit();
     await protection.commit();
     await hosting.commit();
+    await queue.commit();
   } finally {
     await buses.abandon();
     await branches.abandon();
     await faults.abandon();
     await protection.abandon();
     await hosting.abandon();
+    await queue.abandon();
   }
   const ranking = rankNeeds(needs, config.ranking);
   await writeFileAtomic(join(outDir, "ranking.csv"), rankingCsv(ranking, provenance));
@@ -112,6 +123,7 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
       "faults.csv",
       "protection.csv",
       "hosting.csv",
+      "queue.csv",
       "buses.parquet",
       "branches.parquet",
       "report.html",

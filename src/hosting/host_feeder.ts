@@ -28,6 +28,7 @@ import { type HostingCriterion, trialMargin } from "./hosting_margin.ts";
 import { screenConverterDuty, screenHosting } from "./screen_hosting.ts";
 import { confirmCapacity } from "./confirm_hosting.ts";
 import { withUnitsAdded } from "./add_unit.ts";
+import { checkQueue, type QueueRow } from "./check_queue.ts";
 
 export interface HostingBusRow {
   readonly bus: string;
@@ -65,6 +66,8 @@ export interface FeederHosting {
   readonly protectionChecked: boolean;
   readonly strategies: readonly HostingStrategySummary[];
   readonly buses: readonly HostingBusRow[];
+  /** The feeder's generation applications in queue order, each checked on those before it. */
+  readonly queue: readonly QueueRow[];
   /** Load flows solved for the whole hosting study of the feeder. */
   readonly loadFlows: number;
 }
@@ -263,6 +266,7 @@ export function hostFeeder(
       protectionChecked,
       strategies: summaries,
       buses: rows,
+      queue: checkQueue(form, settings, hosting, faultBase),
       loadFlows: base.loadFlows,
     },
     diagnostics,
@@ -296,7 +300,23 @@ function faultCheck(
   protection: boolean,
   duty: boolean,
 ): { criterion: HostingCriterion; code: string; where: FindingPlace } | null {
-  const trial = unitAt(base, k, pKw, base.hosting.strategies[0]!);
+  return faultCriteria(
+    base,
+    fb,
+    unitAt(base, k, pKw, base.hosting.strategies[0]!),
+    protection,
+    duty,
+  );
+}
+
+/** The fault criteria of a trial form (the base feeder with new units). */
+export function faultCriteria(
+  base: HostingBase,
+  fb: HostingFaultBase,
+  trial: FeederForm,
+  protection: boolean,
+  duty: boolean,
+): { criterion: HostingCriterion; code: string; where: FindingPlace } | null {
   const lvMaxKv = base.settings.limits.lvMaxKv;
   if (duty) {
     const before = new Map(fb.study!.devices.map((d) => [d.id, d]));

@@ -46,3 +46,49 @@ export function hostingCsvRows(file: FeederFile): string {
   );
   return text.slice(text.indexOf("\n") + 1);
 }
+
+export const QUEUE_COLUMNS = [
+  "feeder",
+  "position",
+  "application",
+  "bus",
+  "size_kw",
+  "unit_kind",
+  "strategy",
+  "verdict",
+  "upgrade",
+  "alternative_strategy",
+  "binding_criterion",
+  "binding_code",
+  "binding_where",
+] as const;
+
+/** `queue.csv`: every generation application, in queue order per feeder, with its verdict. */
+export function queueCsvHead(p: CsvProvenance): string {
+  return provenanceLines("generation applications checked in queue order", p) +
+    QUEUE_COLUMNS.join(",") + "\n";
+}
+
+export function queueCsvRows(file: FeederFile): string {
+  const q = file.hosting?.queue;
+  if (q === undefined || q.length === 0) return "";
+  const text = csv(
+    QUEUE_COLUMNS,
+    q.map((r) => [
+      file.feederId,
+      r.position,
+      r.application,
+      r.bus,
+      r.sizeKw,
+      r.kind,
+      r.strategy,
+      r.verdict,
+      r.upgrade,
+      r.alternative,
+      r.criterion,
+      r.code,
+      r.where?.id ?? null,
+    ]),
+  );
+  return text.slice(text.indexOf("\n") + 1);
+}
