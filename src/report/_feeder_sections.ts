@@ -178,9 +178,8 @@ export function renderNeeds(file: FeederFile, currency: string): Html {
 
 export function renderHeadroom(file: FeederFile): Html {
   const h = file.headroom;
-  const perBus = html`<p class="note">Per-bus hosting capacity is not part of this run.</p>`;
   if (h === null) {
-    return html`<p class="note">The feeder's generation headroom was not computed in this run.</p>${perBus}`;
+    return html`<p class="note">The feeder's generation headroom was not computed in this run.</p>`;
   }
   const binding = h.binding === null
     ? "no limit was reached within the search range"
@@ -196,7 +195,7 @@ export function renderHeadroom(file: FeederFile): Html {
   ]}</div>
 <p>The connected generation, grown in the same places and proportions, stays within every limit up to ${
     formatNumber(h.factor, 2)
-  } times its size in case ${h.caseId}; ${binding}.</p>${perBus}`;
+  } times its size in case ${h.caseId}; ${binding}.</p>`;
 }
 
 export function renderFindingsSummary(file: FeederFile): Html {

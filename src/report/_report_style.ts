@@ -79,6 +79,8 @@ section.feeder > h2 .back { margin-left: auto; font-size: 13px; font-weight: 400
 .need table, table.findings { margin: 6px 0; width: auto; min-width: 55%; }
 .need ul { margin: 4px 0; padding-left: 20px; }
 .schematic-wrap { display: flex; flex-wrap: wrap; gap: 12px 28px; align-items: flex-start; }
+table.hosting-buses td.num .detail, table.hosting-strategies td.num .detail { white-space: normal; }
+table.hosting-buses td:first-child { white-space: nowrap; }
 ul.legend { list-style: none; padding: 0; margin: 4px 0; font-size: 12px; }
 ul.legend li { margin: 3px 0; display: flex; align-items: center; gap: 8px; }
 ul.legend .swatch { width: 12px; height: 12px; border-radius: 50%; border: 1px solid #2b2f33; display: inline-block; flex: none; }

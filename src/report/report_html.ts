@@ -29,6 +29,7 @@ import { layoutFeederTree } from "./_feeder_tree_layout.ts";
 import { worstVoltageColouring } from "./_bus_colouring.ts";
 import { renderFeederSchematic } from "./_feeder_schematic.ts";
 import { renderFaultLevels } from "./_fault_levels.ts";
+import { renderHostingSection } from "./_hosting_section.ts";
 
 /** Above this many buses the schematic is left out (unreadable, and megabytes of SVG). */
 export const SCHEMATIC_MAX_BUSES = 2000;
@@ -102,7 +103,7 @@ export async function renderReportHead(ctx: ReportContext): Promise<string> {
           <section id="feeders" aria-labelledby="feeders-h">
             <h2 id="feeders-h">Feeder pages</h2>
             <p
-              class="note">One section per feeder of the run: key figures, needs, generation headroom, voltage profile, schematic and protection curves.</p>
+              class="note">One section per feeder of the run: key figures, needs, generation headroom, hosting capacity, voltage profile, schematic and protection curves.</p>
   `.__html.trimStart();
 }
 
@@ -158,13 +159,14 @@ export async function renderFeederPage(file: FeederFile, ctx: ReportContext): Pr
   const anchor = feederAnchor(file.feederId);
   const drawnCase = file.cases.find((c) => c.converged && (c.buses?.length ?? 0) > 0);
   const proposed = proposedDevices(file);
-  const [profile, tcc, faultLevels, tccAfter] = await Promise.all([
+  const [profile, tcc, faultLevels, tccAfter, hosting] = await Promise.all([
     voltageProfileChart(file.cases, ctx.limits, `${anchor}-vp`),
     timeCurrentChart(file.devices, `${anchor}-tc`, faultMarks(file)),
     renderFaultLevels(file, `${anchor}-fl`),
     proposed === null
       ? Promise.resolve(null)
       : timeCurrentChart(proposed, `${anchor}-tca`, faultMarks(file)),
+    renderHostingSection(file, `${anchor}-hc`),
   ]);
   let schematic: Html =
     html`<p class="note">No case has bus and branch results to draw the schematic from.</p>`;
@@ -218,6 +220,8 @@ export async function renderFeederPage(file: FeederFile, ctx: ReportContext): Pr
     ${renderNeeds(file, ctx.costs.currency)}
     <h3>Generation headroom</h3>
     ${renderHeadroom(file)}
+    <h3>Hosting capacity</h3>
+    ${hosting}
     <h3>Voltage profile</h3>
     ${figure(
       profile.svg,
