@@ -95,7 +95,7 @@ Deno.test("runStudy() reports a feeder whose worker crashes or hangs and keeps e
     });
     const run = await runStudy("data-samples/norvessa", "pipelines/nightly.json", config, faulty, {
       workers: 2,
-      timeoutMs: 2_000,
+      timeoutMs: 5_000,
       faults: { crash: ["MOR-L2"], hang: ["EST-M3"] },
     });
     const a = await readTree(clean), b = await readTree(faulty);

@@ -25,14 +25,15 @@ export function bruteForceHosting(
   hosting: HostingSettings,
   strategy: HostingStrategy,
   toleranceKw: number,
-): { buses: BruteForceBus[]; loadFlows: number } {
+): { buses: BruteForceBus[]; loadFlows: number; sweeps: number } {
   const base = prepareHostingBase(form, settings, hosting);
-  if (base === null) return { buses: [], loadFlows: 0 };
+  if (base === null) return { buses: [], loadFlows: 0, sweeps: 0 };
   // Cold starts: every trial solves from the flat profile, like a plain loop of load flows.
   const cold = (pKw: number, k: number) => {
     const trial = unitAt(base, k, pKw, strategy);
     base.loadFlows++;
     const r = solveLoadFlow(trial, base.lfCase, settings.solver, base.prepared).value;
+    base.sweeps += r.iterations;
     return r.converged ? measureTrial(base, trial, r) : null;
   };
   const buses: BruteForceBus[] = [];
@@ -55,5 +56,5 @@ export function bruteForceHosting(
     }
     buses.push({ bus: form.busIds[k]!, capacityKw: lo, criterion });
   }
-  return { buses, loadFlows: base.loadFlows };
+  return { buses, loadFlows: base.loadFlows, sweeps: base.sweeps };
 }

@@ -23,7 +23,7 @@ import { type FaultStudy, studyFaults } from "../solve/study_faults.ts";
 import { checkProtection } from "../checks/check_protection.ts";
 import type { LoadFlowResult } from "../solve/load_flow_types.ts";
 import type { HostingSettings, HostingStrategy } from "./hosting_settings.ts";
-import { type HostingBase, prepareHostingBase } from "./hosting_base.ts";
+import { type HostingBase, prepareHostingBase, screenedStart } from "./hosting_base.ts";
 import { type HostingCriterion, trialMargin } from "./hosting_margin.ts";
 import { screenConverterDuty, screenHosting } from "./screen_hosting.ts";
 import { confirmCapacity } from "./confirm_hosting.ts";
@@ -68,8 +68,9 @@ export interface FeederHosting {
   readonly buses: readonly HostingBusRow[];
   /** The feeder's generation applications in queue order, each checked on those before it. */
   readonly queue: readonly QueueRow[];
-  /** Load flows solved for the whole hosting study of the feeder. */
+  /** Load flows, and their sweeps, solved for the whole hosting study of the feeder. */
   readonly loadFlows: number;
+  readonly sweeps: number;
 }
 
 export interface HostingFaultBase {
@@ -88,10 +89,17 @@ export interface HostingOutcome {
 const UNIT_ID = "hosting-unit";
 /**
  * The fault criteria have no continuous margin (a finding appears or not) and each trial is a
- * whole short-circuit and protection study: their limit is bracketed to 5 % or 25 kW.
+ * whole short-circuit and protection study: their limit is bracketed to 5 % (or the study's
+ * absolute tolerance).
  */
 const FAULT_TOLERANCE_PERCENT = 5;
-const FAULT_TOLERANCE_KW = 25;
+/**
+ * How far the screen's slope may be off the nonlinear one: up to 18 % seen on synthetic
+ * feeders with ZIP loads and tap changers (BENCHMARKS.md), and a tenth of that once the
+ * parent's confirmation has scaled it.
+ */
+const RAW_SLOPE_UNCERTAINTY = 1;
+const CORRECTED_SLOPE_UNCERTAINTY = 0.3;
 
 export function hostFeeder(
   form: FeederForm,
@@ -137,15 +145,25 @@ export function hostFeeder(
     // changers) varies slowly along the feeder: a bus starts from its screen scaled by the
     // ratio its parent's confirmation found for the same criterion (parents come first).
     const ratio = new Float64Array(form.nBus).fill(1);
+    const start = { vRePu: new Float64Array(form.nBus), vImPu: new Float64Array(form.nBus) };
+    const onPath = new Uint8Array(form.nBus);
     const ratioFor = new Array<HostingCriterion | null>(form.nBus).fill(null);
     return buses.map((k) => {
       const s = screened[k]!, p = form.parent[k]!;
       const c0 = ratioFor[p] === s.criterion ? ratio[p]! : 1;
       const before = base.loadFlows;
       const c = confirmCapacity(
-        (pKw) => trialMargin(base, unitAt(base, k, pKw, strategy)),
+        (pKw) => {
+          screenedStart(base, k, pKw / 1000 * s.wRe, pKw / 1000 * s.wIm, start, onPath);
+          return trialMargin(base, unitAt(base, k, pKw, strategy), true, start);
+        },
         s.pKw * c0,
-        { perKw: s.slopePerKw / c0, code: s.code, whereId: s.where.id },
+        {
+          perKw: s.slopePerKw / c0,
+          code: s.code,
+          whereId: s.where.id,
+          uncertainty: c0 === 1 ? RAW_SLOPE_UNCERTAINTY : CORRECTED_SLOPE_UNCERTAINTY,
+        },
         opts,
       );
       if (c.criterion === s.criterion && s.pKw > 0 && c.pKw > 0) {
@@ -164,6 +182,9 @@ export function hostFeeder(
   const dutyScreen = dutyOn && hosting.unitKind === "converter"
     ? screenConverterDuty(form, faultBase!.study!, faultBase!.settings, hosting.strategies[0]!)
     : null;
+  // A bus's fault-criteria limit starts from its parent's (limits change slowly along a
+  // protection zone): two trials straddling it usually settle it.
+  const trialLimit = new Float64Array(form.nBus).fill(NaN);
   const faultLimit = buses.map((k, i) => {
     let pMax = 0;
     for (const rows of perStrategy) pMax = Math.max(pMax, rows[i]!.confirmed.pKw);
@@ -188,17 +209,26 @@ export function hostFeeder(
       faultCheck(base, faultBase, k, pKw, protectionChecked, dutyOn && !exactDuty);
     const atUpper = check(upper);
     if (atUpper === null) return bound;
-    // Bisection on [0, upper]: the fault criteria have no continuous margin.
+    // Search on [0, upper] (the fault criteria have no continuous margin): first two trials
+    // around the parent's limit, then bisection.
+    const tol = (p: number) => Math.max(opts.toleranceKw, FAULT_TOLERANCE_PERCENT / 100 * p);
     let lo = 0, hi = upper, why = atUpper;
-    while (hi - lo > Math.max(FAULT_TOLERANCE_KW, FAULT_TOLERANCE_PERCENT / 100 * lo)) {
-      const mid = (lo + hi) / 2;
-      const r = check(mid);
-      if (r === null) lo = mid;
+    const step = (p: number) => {
+      const r = check(p);
+      if (r === null) lo = p;
       else {
-        hi = mid;
+        hi = p;
         why = r;
       }
+    };
+    const guess = trialLimit[form.parent[k]!]!;
+    if (guess > 0 && guess < upper) {
+      step(Math.max(guess - tol(guess) / 2, 0));
+      const above = lo + tol(lo);
+      if (lo > 0 && above < hi) step(above);
     }
+    while (hi - lo > tol(lo)) step((lo + hi) / 2);
+    trialLimit[k] = lo;
     return { pKw: lo, ...why };
   });
 
@@ -268,6 +298,7 @@ export function hostFeeder(
       buses: rows,
       queue: checkQueue(form, settings, hosting, faultBase),
       loadFlows: base.loadFlows,
+      sweeps: base.sweeps,
     },
     diagnostics,
   };

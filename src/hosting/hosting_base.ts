@@ -26,8 +26,12 @@ export interface HostingBase {
   readonly solved: LoadFlowResult;
   readonly withoutGeneration: LoadFlowResult;
   readonly skip: MarginExclusions;
-  /** Load flows solved so far for this feeder (work counter for benchmarks). */
+  /** Impedance of each bus's path from the source, pu (the screen's sensitivities). */
+  readonly zpRe: Float64Array;
+  readonly zpIm: Float64Array;
+  /** Load flows and sweeps solved so far for this feeder (work counters for benchmarks). */
   loadFlows: number;
+  sweeps: number;
 }
 
 /** The case units are added to: the one named, else minimum demand with the most generation. */
@@ -40,6 +44,40 @@ export function hostingCase(settings: CaseSettings, hosting: HostingSettings): S
   const rank = (c: StudyCase) => (c.demand === "min" ? 1e6 : 0) + c.generationScale;
   for (const c of settings.cases) if (best === null || rank(c) > rank(best)) best = c;
   return best;
+}
+
+/**
+ * Start voltages for a trial with current J (pu) injected at bus k: the base solution plus
+ * Z_common·J at every bus — the path's impedance up to where the bus's own path leaves k's
+ * (parents come before children, so one pass). Written into `out`.
+ */
+export function screenedStart(
+  base: HostingBase,
+  k: number,
+  jRe: number,
+  jIm: number,
+  out: { readonly vRePu: Float64Array; readonly vImPu: Float64Array },
+  onPath: Uint8Array,
+): void {
+  const { form, solved, zpRe, zpIm } = base;
+  for (let m = k; m > 0; m = form.parent[m]!) onPath[m] = 1;
+  const dr = out.vRePu, di = out.vImPu; // hold the changes first
+  dr[0] = 0;
+  di[0] = 0;
+  for (let i = 1; i < form.nBus; i++) {
+    if (onPath[i]) {
+      dr[i] = zpRe[i]! * jRe - zpIm[i]! * jIm;
+      di[i] = zpRe[i]! * jIm + zpIm[i]! * jRe;
+    } else {
+      dr[i] = dr[form.parent[i]!]!;
+      di[i] = di[form.parent[i]!]!;
+    }
+  }
+  for (let m = k; m > 0; m = form.parent[m]!) onPath[m] = 0;
+  for (let i = 0; i < form.nBus; i++) {
+    dr[i] = dr[i]! + solved.vRePu[i]!;
+    di[i] = di[i]! + solved.vImPu[i]!;
+  }
 }
 
 /** Null when the case is missing or does not solve (the feeder's study says why). */
@@ -57,6 +95,11 @@ export function prepareHostingBase(
     : solveLoadFlow(form, { ...lfCase, generationScale: 0 }, settings.solver, prepared).value;
   if (!solved.converged || !withoutGeneration.converged) return null;
   const atTaps = withTapPositions(form, solved.tapPositions);
+  const n = form.nBus, zpRe = new Float64Array(n), zpIm = new Float64Array(n);
+  for (let k = 1; k < n; k++) {
+    zpRe[k] = zpRe[form.parent[k]!]! + prepared.zRe[k - 1]!;
+    zpIm[k] = zpIm[form.parent[k]!]! + prepared.zIm[k - 1]!;
+  }
   return {
     form: atTaps,
     lfCase,
@@ -66,6 +109,9 @@ export function prepareHostingBase(
     solved,
     withoutGeneration,
     skip: exclusionsOf(atTaps, solved, withoutGeneration, settings.limits, settings.checks),
+    zpRe,
+    zpIm,
     loadFlows: form.generators.n === 0 ? 1 : 2,
+    sweeps: solved.iterations + (withoutGeneration === solved ? 0 : withoutGeneration.iterations),
   };
 }

@@ -89,7 +89,8 @@ Deno.test("reverse power binds at the feeder head: capacity = demand + losses wi
   const row = capacityAt(form, LOOSE, h, "B2");
   assertEquals(row.criterion, "reverse_power");
   assertEquals(row.where.id, "CB");
-  assert(row.capacityKw >= 500 && row.capacityKw < 505, String(row.capacityKw));
+  // 500 kW plus the line's losses (under 1 kW here), to the method's 5 kW tolerance.
+  assert(Math.abs(row.capacityKw - 500) <= 5, String(row.capacityKw));
 });
 
 Deno.test("rapid voltage change binds when the unit's trip step (taps frozen) exceeds 1 %: the same branch equation at V = 1.01", async () => {

@@ -50,12 +50,18 @@ const CRITERION_OF_CODE: Readonly<Record<string, HostingCriterion>> = {
 };
 
 /**
- * Solves the trial form (warm start from the base case) and measures its margin; `rapid`
- * false leaves out the rapid change when the new units trip.
+ * Solves the trial form (warm start from the base case, or the start given) and measures
+ * its margin; `rapid` false leaves out the rapid change when the new units trip.
  */
-export function trialMargin(base: HostingBase, trial: FeederForm, rapid = true): TrialMargin {
+export function trialMargin(
+  base: HostingBase,
+  trial: FeederForm,
+  rapid = true,
+  start: { readonly vRePu: Float64Array; readonly vImPu: Float64Array } = base.solved,
+): TrialMargin {
   base.loadFlows++;
-  const r = solveLoadFlow(trial, base.lfCase, base.settings.solver, base.prepared, base.solved);
+  const r = solveLoadFlow(trial, base.lfCase, base.settings.solver, base.prepared, start);
+  base.sweeps += r.value.iterations;
   return measureTrial(base, trial, r.value, rapid);
 }
 
@@ -165,5 +171,6 @@ function trippedState(base: HostingBase, r: LoadFlowResult): LoadFlowResult | nu
     base.prepared,
     r,
   ).value;
+  base.sweeps += frozen.iterations;
   return frozen.converged ? frozen : null;
 }

@@ -116,7 +116,7 @@ export const DEFAULT_HOSTING_SETTINGS: HostingSettings = {
   reversePower: { headLimitKw: null, transformerLimitKw: null },
   breakerDuty: true,
   protection: true,
-  protectionMaxBuses: 30,
+  protectionMaxBuses: 60,
   maxBuses: 5000,
   maxMw: 30,
   toleranceKw: 5,

@@ -41,6 +41,9 @@ export interface ScreenedBus {
   readonly slopePerKw: number;
   /** The binding term's check code, as the trial margin names it. */
   readonly code: string;
+  /** Current the unit injects per pu of active power at the answer, pu (the trials' start). */
+  readonly wRe: number;
+  readonly wIm: number;
 }
 
 const TERMS = 3; // band, change, rapid
@@ -60,12 +63,7 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
   const n = form.nBus, parent = form.parent;
   const { limits, checks } = settings;
   const maxPu = hosting.maxMw;
-  // Path impedance from the source to each bus, pu (parents come before children).
-  const zpRe = new Float64Array(n), zpIm = new Float64Array(n);
-  for (let k = 1; k < n; k++) {
-    zpRe[k] = zpRe[parent[k]!]! + prepared.zRe[k - 1]!;
-    zpIm[k] = zpIm[parent[k]!]! + prepared.zIm[k - 1]!;
-  }
+  const { zpRe, zpIm } = base;
   // Smallest headroom of each voltage term in each subtree, and where.
   const h = new Float64Array(n * TERMS).fill(Infinity), at = new Int32Array(n * TERMS).fill(-1);
   for (let i = 0; i < n; i++) {
@@ -160,6 +158,8 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
     where: place(form, "bus", 0),
     slopePerKw: 0,
     code: CODE.search_range,
+    wRe: 0,
+    wIm: 0,
   });
   for (let k = 1; k < n; k++) {
     const vr0 = solved.vRePu[k]!, vi0 = solved.vImPu[k]!, v0 = Math.hypot(vr0, vi0);
@@ -213,7 +213,15 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
         code = revCode[revAt[k]!]!;
         slope = 1 / 1000;
       } else code = CODE[crit] ?? CODE.search_range;
-      best = { pKw: pBest * 1000, criterion: crit, where, slopePerKw: slope, code };
+      best = {
+        pKw: pBest * 1000,
+        criterion: crit,
+        where,
+        slopePerKw: slope,
+        code,
+        wRe: wr,
+        wIm: wi,
+      };
       vk = Math.hypot(
         vr0 + pBest * (zpRe[k]! * wr - zpIm[k]! * wi),
         vi0 + pBest * (zpRe[k]! * wi + zpIm[k]! * wr),

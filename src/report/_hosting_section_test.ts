@@ -83,6 +83,7 @@ function hosting(over: Partial<FeederHosting> = {}): FeederHosting {
       row(bus, "volt_var", v, bus === "SKR-F1-01" ? "thermal" : "voltage_change"),
     ]),
     loadFlows: 140,
+    sweeps: 700,
     queue: [],
     ...over,
   };
