@@ -26,7 +26,7 @@ import type { HostingSettings, HostingStrategy } from "./hosting_settings.ts";
 import { type HostingBase, prepareHostingBase, screenedStart } from "./hosting_base.ts";
 import { type HostingCriterion, trialMargin } from "./hosting_margin.ts";
 import { screenConverterDuty, screenHosting } from "./screen_hosting.ts";
-import { confirmCapacity } from "./confirm_hosting.ts";
+import { confirmCapacity, type Confirmed, type ConfirmOptions } from "./confirm_hosting.ts";
 import { withUnitsAdded } from "./add_unit.ts";
 import { checkQueue, type QueueRow } from "./check_queue.ts";
 
@@ -139,40 +139,9 @@ export function hostFeeder(
   for (let k = first; k < form.nBus; k++) buses.push(k);
 
   // Load-flow capacity of every bus and strategy.
-  const perStrategy = hosting.strategies.map((strategy) => {
-    const screened = screenHosting(base, strategy);
-    // What the screen leaves out (load voltage dependence, other units' controls, tap
-    // changers) varies slowly along the feeder: a bus starts from its screen scaled by the
-    // ratio its parent's confirmation found for the same criterion (parents come first).
-    const ratio = new Float64Array(form.nBus).fill(1);
-    const start = { vRePu: new Float64Array(form.nBus), vImPu: new Float64Array(form.nBus) };
-    const onPath = new Uint8Array(form.nBus);
-    const ratioFor = new Array<HostingCriterion | null>(form.nBus).fill(null);
-    return buses.map((k) => {
-      const s = screened[k]!, p = form.parent[k]!;
-      const c0 = ratioFor[p] === s.criterion ? ratio[p]! : 1;
-      const before = base.loadFlows;
-      const c = confirmCapacity(
-        (pKw) => {
-          screenedStart(base, k, pKw / 1000 * s.wRe, pKw / 1000 * s.wIm, start, onPath);
-          return trialMargin(base, unitAt(base, k, pKw, strategy), true, start);
-        },
-        s.pKw * c0,
-        {
-          perKw: s.slopePerKw / c0,
-          code: s.code,
-          whereId: s.where.id,
-          uncertainty: c0 === 1 ? RAW_SLOPE_UNCERTAINTY : CORRECTED_SLOPE_UNCERTAINTY,
-        },
-        opts,
-      );
-      if (c.criterion === s.criterion && s.pKw > 0 && c.pKw > 0) {
-        ratio[k] = c.pKw / s.pKw;
-        ratioFor[k] = s.criterion;
-      }
-      return { k, screenedKw: s.pKw, confirmed: c, loadFlows: base.loadFlows - before };
-    });
-  });
+  const perStrategy = hosting.strategies.map((strategy) =>
+    confirmBuses(base, strategy, buses, opts)
+  );
 
   // Fault criteria, once per bus.
   const protectionChecked = faultBase !== null && hosting.protection &&
@@ -302,6 +271,58 @@ export function hostFeeder(
     },
     diagnostics,
   };
+}
+
+/** One bus's load-flow capacity: the screen's estimate and the confirmed answer. */
+export interface ConfirmedBus {
+  readonly k: number;
+  readonly screenedKw: number;
+  readonly confirmed: Confirmed;
+  readonly loadFlows: number;
+}
+
+/**
+ * The load-flow capacity of each bus (in tree order) for one strategy: screen, then confirm.
+ * What the screen leaves out (load voltage dependence, other units' controls, tap changers)
+ * varies slowly along the feeder, so a bus starts from its screen scaled by the ratio its
+ * parent's confirmation found for the same criterion (parents come first).
+ */
+export function confirmBuses(
+  base: HostingBase,
+  strategy: HostingStrategy,
+  buses: readonly number[],
+  opts: ConfirmOptions,
+): ConfirmedBus[] {
+  const form = base.form;
+  const screened = screenHosting(base, strategy);
+  const ratio = new Float64Array(form.nBus).fill(1);
+  const ratioFor = new Array<HostingCriterion | null>(form.nBus).fill(null);
+  const start = { vRePu: new Float64Array(form.nBus), vImPu: new Float64Array(form.nBus) };
+  const onPath = new Uint8Array(form.nBus);
+  return buses.map((k) => {
+    const s = screened[k]!, p = form.parent[k]!;
+    const c0 = ratioFor[p] === s.criterion ? ratio[p]! : 1;
+    const before = base.loadFlows;
+    const c = confirmCapacity(
+      (pKw) => {
+        screenedStart(base, k, pKw / 1000 * s.wRe, pKw / 1000 * s.wIm, start, onPath);
+        return trialMargin(base, unitAt(base, k, pKw, strategy), true, start);
+      },
+      s.pKw * c0,
+      {
+        perKw: s.slopePerKw / c0,
+        code: s.code,
+        whereId: s.where.id,
+        uncertainty: c0 === 1 ? RAW_SLOPE_UNCERTAINTY : CORRECTED_SLOPE_UNCERTAINTY,
+      },
+      opts,
+    );
+    if (c.criterion === s.criterion && s.pKw > 0 && c.pKw > 0) {
+      ratio[k] = c.pKw / s.pKw;
+      ratioFor[k] = s.criterion;
+    }
+    return { k, screenedKw: s.pKw, confirmed: c, loadFlows: base.loadFlows - before };
+  });
 }
 
 /** The base feeder with one new unit of pKw at bus k. */
