@@ -49,3 +49,16 @@ Deno.test("studyFeeder() leaves the protection of a feeder above protection.maxB
   assert(s.diagnostics.some((d) => d.code === "protection.too_large" && d.severity === "warning"));
   assert(!s.findings.some((f) => f.code.startsWith("protection.")));
 });
+
+Deno.test("studyFeeder() gives every bus of the rural overhead feeder a hosting capacity per strategy, with what binds it; volt-var takes more than unity power factor there", () => {
+  const h = studies.get("MOR-L1")!.hosting!;
+  const strategies = config.hosting.strategies.map((s) => s.id);
+  const feederBuses = new Set(h.buses.map((b) => b.bus));
+  assertEquals(h.buses.length, feederBuses.size * strategies.length);
+  assert(h.buses.every((b) => b.capacityKw >= 0 && b.criterion !== "no_solution"));
+  const spread = (id: string) => h.strategies.find((s) => s.strategy === id)!;
+  // Invented demo data: the absorbing volt-var curve lowers the rise that binds with unity.
+  assert(spread("volt-var-b").minKw > spread("unity").minKw);
+  assert(spread("volt-var-b").spreadKw > spread("unity").spreadKw);
+  assertEquals(spread("unity").spreadCriterion, "voltage_change");
+});

@@ -55,6 +55,16 @@ interface Candidate {
   readonly message: string;
 }
 
+/**
+ * A narrower check for trials that only add generation: findings come from the conditions
+ * named (those the generation changes); the responses without generation that blinding
+ * compares with are the same in every trial, simulated once and kept in `reference`.
+ */
+export interface ProtectionScope {
+  readonly conditions: ReadonlySet<Condition>;
+  readonly reference: Map<string, FaultResponse>;
+}
+
 export function checkProtection(
   form: FeederForm,
   faults: FaultSettings,
@@ -62,6 +72,7 @@ export function checkProtection(
   lvMaxKv: number,
   /** Told every fault simulated at a bus of the feeder (for the coordination table). */
   onFault?: (condition: Condition, r: FaultResponse) => void,
+  scope?: ProtectionScope,
 ): Finding[] {
   const devices = protectiveDevices(form);
   if (devices.length === 0 || form.nBranch !== form.nBus - 1) return [];
@@ -91,10 +102,22 @@ export function checkProtection(
         const m = models[cond];
         if (m === undefined) continue;
         if (type === "line_to_earth" && !Number.isFinite(m.t0.zthRe[k]!)) continue;
+        if (scope !== undefined && !scope.conditions.has(cond)) {
+          if (cond !== "maxWithoutGeneration") continue;
+          const key = `${k}|${type}`;
+          let r = scope.reference.get(key);
+          if (r === undefined) {
+            r = simulateFaultProtection(m, devices, k, type);
+            scope.reference.set(key, r);
+          }
+          res[cond] = r;
+          continue;
+        }
         res[cond] = simulateFaultProtection(m, devices, k, type);
         onFault?.(cond, res[cond]!);
       }
       for (const [cond, r] of Object.entries(res) as [Condition, FaultResponse][]) {
+        if (scope !== undefined && !scope.conditions.has(cond)) continue;
         const p = r.primary, b = r.backup, first = r.first;
         if (p === null) continue;
         const onPath = (d: DeviceResponse) => isOnPath(form, d.branch, k);
@@ -190,7 +213,9 @@ export function checkProtection(
         }
       }
       fuseSaving(form, devices, res.max, "max", k, note, where, secs);
-      fuseSaving(form, devices, res.min, "min", k, note, where, secs);
+      if (scope === undefined || scope.conditions.has("min")) {
+        fuseSaving(form, devices, res.min, "min", k, note, where, secs);
+      }
     }
   }
   // Sympathetic tripping: a fault on the busbar the head device hangs from.

@@ -20,7 +20,8 @@ import type { CaseSettings } from "../pipeline/study_feeder.ts";
 import type { FaultSettings } from "../solve/fault_settings.ts";
 import type { ProtectionSettings } from "../solve/protection_settings.ts";
 import { type FaultStudy, studyFaults } from "../solve/study_faults.ts";
-import { checkProtection } from "../checks/check_protection.ts";
+import { checkProtection, type Condition } from "../checks/check_protection.ts";
+import type { FaultResponse } from "../solve/simulate_fault_protection.ts";
 import type { LoadFlowResult } from "../solve/load_flow_types.ts";
 import type { HostingSettings, HostingStrategy } from "./hosting_settings.ts";
 import { type HostingBase, prepareHostingBase, screenedStart } from "./hosting_base.ts";
@@ -79,7 +80,12 @@ export interface HostingFaultBase {
   /** The feeder's short-circuit study (null: off or not solved) and its protection findings. */
   readonly study: FaultStudy | null;
   readonly protectionKeys: ReadonlySet<string> | null;
+  /** Responses without generation, shared by every trial of the feeder (filled on use). */
+  readonly reference?: Map<string, FaultResponse>;
 }
+
+/** The protection conditions a new unit changes: maximum and minimum with generation. */
+const GENERATION_CONDITIONS: ReadonlySet<Condition> = new Set(["max", "minWithGeneration"]);
 
 export interface HostingOutcome {
   readonly hosting: FeederHosting | null;
@@ -387,7 +393,8 @@ export function faultCriteria(
     }
   }
   if (protection) {
-    for (const f of checkProtection(trial, fb.settings, fb.protection, lvMaxKv)) {
+    const scope = { conditions: GENERATION_CONDITIONS, reference: fb.reference ?? new Map() };
+    for (const f of checkProtection(trial, fb.settings, fb.protection, lvMaxKv, undefined, scope)) {
       if (f.severity !== "violation" || fb.protectionKeys!.has(`${f.code}|${f.where.id}`)) continue;
       return { criterion: "protection", code: f.code, where: f.where };
     }

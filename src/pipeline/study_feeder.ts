@@ -151,6 +151,7 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
         protectionKeys: protectionOn
           ? new Set(protection.map((f) => `${f.code}|${f.where.id}`))
           : null,
+        reference: new Map(),
       },
     )
     : { hosting: null, diagnostics: [] };
