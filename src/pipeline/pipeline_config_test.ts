@@ -578,3 +578,48 @@ Deno.test("parsePipelineConfig() reads the cost table, remedy and ranking sectio
   ]);
   assert(bad.diagnostics[2]!.message.includes(`"hosting"`));
 });
+
+Deno.test("parsePipelineConfig() reads hosting strategies: presets (IEEE 1547-2018 Cat. A/B volt-var [memory]), custom points, fixed power factor", () => {
+  const r = parse(JSON.stringify({
+    hosting: {
+      strategies: [
+        { id: "unity", reactive: { mode: "unity" } },
+        { id: "vv-a", reactive: { mode: "volt_var", preset: "ieee1547-cat-a" } },
+        {
+          id: "own",
+          label: "our curve",
+          reactive: { mode: "volt_var", points: [{ x: 0.95, y: 0.3 }, { x: 1.05, y: -0.3 }] },
+        },
+        { id: "pf", reactive: { mode: "fixed_power_factor", powerFactor: 0.97 } },
+      ],
+      reversePower: { headLimitKw: 1500 },
+      targetMw: 4,
+    },
+  }));
+  const h = r.value!.hosting;
+  deepStrictEqual(h.strategies.map((s) => s.id), ["unity", "vv-a", "own", "pf"]);
+  // Category A: 0.90 pu / +25 %, 1.00 pu / 0, 1.10 pu / −25 % of nameplate VA [memory].
+  deepStrictEqual(h.strategies[1]!.reactive, {
+    mode: "volt_var",
+    points: [{ x: 0.9, y: 0.25 }, { x: 1, y: 0 }, { x: 1.1, y: -0.25 }],
+  });
+  deepStrictEqual(h.strategies[2]!.label, "our curve");
+  deepStrictEqual(h.reversePower, { headLimitKw: 1500, transformerLimitKw: null });
+  deepStrictEqual(h.targetMw, 4);
+  deepStrictEqual(h.rapidChange, { mvLimitPercent: 3, lvLimitPercent: 5 });
+});
+
+Deno.test("parsePipelineConfig() rejects bad hosting strategies with their place", () => {
+  const r = parse(JSON.stringify({
+    hosting: {
+      strategies: [
+        { id: "a", reactive: { mode: "volt_var", points: [{ x: 1.05, y: 0 }, { x: 1.0, y: 0 }] } },
+        { id: "A", reactive: { mode: "unity" } },
+      ],
+    },
+  }));
+  deepStrictEqual(r.value, undefined);
+  const paths = r.diagnostics.map((d) => d.at?.field ?? d.message);
+  assert(paths.some((p) => p.includes("strategies") && p.includes("points")), paths.join("; "));
+  assert(paths.some((p) => p.includes("strategies") && p.includes("id")), paths.join("; "));
+});
