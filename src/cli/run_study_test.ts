@@ -34,6 +34,7 @@ Deno.test("runStudy() writes the run folder, identical between runs but for run.
       "hosting.csv",
       "protection.csv",
       "queue.csv",
+      "recovery.csv",
       "ranking.csv",
       "report.html",
       "run.json",
@@ -76,8 +77,8 @@ Deno.test("runStudy() writes the same bytes with 1, 2 and 4 workers as in one th
       trees.push(t);
     }
     // 13 feeders, findings, diagnostics, ranking, fleet, faults, protection, hosting, queue,
-    // buses, branches, report.
-    assertEquals(Object.keys(trees[0]!).length, 24);
+    // recovery, buses, branches, report.
+    assertEquals(Object.keys(trees[0]!).length, 25);
     for (const t of trees.slice(1)) assertEquals(t, trees[0]);
   } finally {
     await Deno.remove(TMP, { recursive: true }).catch(() => {});

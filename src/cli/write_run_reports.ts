@@ -25,6 +25,7 @@ import {
   queueCsvHead,
   queueCsvRows,
 } from "../report/hosting_csv.ts";
+import { recoveryCsvHead, recoveryCsvRows } from "../report/recovery_csv.ts";
 import { openAtomicFile } from "./open_atomic_file.ts";
 
 export interface RunReportInput {
@@ -70,6 +71,8 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
   await hosting.write(encoder.encode(hostingCsvHead(provenance)));
   const queue = await openAtomicFile(join(outDir, "queue.csv"));
   await queue.write(encoder.encode(queueCsvHead(provenance)));
+  const recovery = await openAtomicFile(join(outDir, "recovery.csv"));
+  await recovery.write(encoder.encode(recoveryCsvHead(provenance)));
   const buses = await openAtomicFile(join(outDir, "buses.parquet"));
   const branches = await openAtomicFile(join(outDir, "branches.parquet"));
   const rows: FleetFeederRow[] = [];
@@ -90,6 +93,8 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
       if (hostingRows !== "") await hosting.write(encoder.encode(hostingRows));
       const queueRows = queueCsvRows(file);
       if (queueRows !== "") await queue.write(encoder.encode(queueRows));
+      const recoveryRows = recoveryCsvRows(file);
+      if (recoveryRows !== "") await recovery.write(encoder.encode(recoveryRows));
       await branchWriter.addFeeder(file);
     }
     await busWriter.finish();
@@ -100,6 +105,7 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
     await protection.commit();
     await hosting.commit();
     await queue.commit();
+    await recovery.commit();
   } finally {
     await buses.abandon();
     await branches.abandon();
@@ -107,6 +113,7 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
     await protection.abandon();
     await hosting.abandon();
     await queue.abandon();
+    await recovery.abandon();
   }
   const ranking = rankNeeds(needs, config.ranking);
   await writeFileAtomic(join(outDir, "ranking.csv"), rankingCsv(ranking, provenance));
@@ -124,6 +131,7 @@ export async function writeRunReports(input: RunReportInput): Promise<RunReports
       "protection.csv",
       "hosting.csv",
       "queue.csv",
+      "recovery.csv",
       "buses.parquet",
       "branches.parquet",
       "report.html",

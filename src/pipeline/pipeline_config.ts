@@ -44,6 +44,8 @@ import {
   remedyOptionsSchema,
 } from "./_ranking_schema.ts";
 import { hostingSettingsSchema } from "./_hosting_schema.ts";
+import { recoverySettingsSchema } from "./_recovery_schema.ts";
+import { DEFAULT_RECOVERY_SETTINGS, type RecoverySettings } from "../recovery/recovery_settings.ts";
 import { DEFAULT_HOSTING_SETTINGS, type HostingSettings } from "../hosting/hosting_settings.ts";
 import { DEFAULT_FAULT_SETTINGS, type FaultSettings } from "../solve/fault_settings.ts";
 import {
@@ -87,6 +89,7 @@ export interface PipelineConfig {
   readonly remedies: RemedyOptions;
   readonly ranking: RankingOptions;
   readonly hosting: HostingSettings;
+  readonly recovery: RecoverySettings;
   readonly name?: string | undefined;
   readonly description?: string | undefined;
   readonly cases: readonly PipelineCase[];
@@ -160,6 +163,7 @@ export const DEFAULT_PIPELINE: PipelineConfig = {
   remedies: DEFAULT_REMEDY_OPTIONS,
   ranking: DEFAULT_RANKING_OPTIONS,
   hosting: DEFAULT_HOSTING_SETTINGS,
+  recovery: DEFAULT_RECOVERY_SETTINGS,
 };
 
 const L = DEFAULT_PIPELINE.limits, S = DEFAULT_PIPELINE.solver;
@@ -296,6 +300,7 @@ export const pipelineConfigSchema: z.ZodType<PipelineConfig, unknown> = z.strict
   remedies: remedyOptionsSchema.prefault({}),
   ranking: rankingOptionsSchema.prefault({}),
   hosting: hostingSettingsSchema.prefault({}),
+  recovery: recoverySettingsSchema.prefault({}),
 });
 
 /**

@@ -29,6 +29,8 @@ import type { ProtectionSettings } from "../solve/protection_settings.ts";
 import type { HostingSettings } from "../hosting/hosting_settings.ts";
 import { type FeederHosting, hostFeeder } from "../hosting/host_feeder.ts";
 import { checkHostingTarget } from "../hosting/hosting_findings.ts";
+import type { RecoverySettings } from "../recovery/recovery_settings.ts";
+import { type FeederRecovery, screenRecovery } from "../recovery/screen_recovery.ts";
 
 export interface StudyCase extends LoadFlowCase {
   readonly label?: string | undefined;
@@ -48,6 +50,7 @@ export interface StudySettings extends CaseSettings {
   readonly costs: CostTable;
   readonly remedies: RemedyOptions;
   readonly hosting: HostingSettings;
+  readonly recovery: RecoverySettings;
 }
 
 export interface BusRow {
@@ -120,6 +123,8 @@ export interface FeederStudy extends CasesStudy {
   readonly devices: readonly DeviceCurves[];
   /** Hosting capacity per bus and strategy (null when off or not studied). */
   readonly hosting: FeederHosting | null;
+  /** Recovery after faults (null when off or not screened). */
+  readonly recovery: FeederRecovery | null;
 }
 
 export function studyFeeder(form: FeederForm, settings: StudySettings): FeederStudy {
@@ -155,8 +160,12 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
       },
     )
     : { hosting: null, diagnostics: [] };
+  const recovered = cases.status === "studied" && faults !== null
+    ? screenRecovery(form, settings, settings.faults, settings.recovery)
+    : { recovery: null, findings: [], diagnostics: [] };
   const findings = [
     ...cases.findings,
+    ...recovered.findings,
     ...(faults === null ? [] : checkFaults(form, faults, settings.faults)),
     ...protection,
     ...(hosted.hosting === null ? [] : checkHostingTarget(form, hosted.hosting, settings.hosting)),
@@ -171,6 +180,7 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
       ...cases.diagnostics,
       ...(faults?.diagnostics ?? []),
       ...hosted.diagnostics,
+      ...recovered.diagnostics,
       ...(faults !== null && settings.protection.enabled && !protectionOn
         ? [makeDiagnostic(
           "protection.too_large",
@@ -185,6 +195,7 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
     ...assessed,
     devices: describeDevices(form),
     hosting: hosted.hosting,
+    recovery: recovered.recovery,
   };
 }
 

@@ -56,6 +56,9 @@ export const REMEDY_ORDER: Readonly<Record<NeedKind, readonly RemedyKind[]>> = {
   // The hosting study itself says which reactive strategy would do (the finding's message);
   // works for capacity are the planner's choice among the per-bus binding criteria.
   hosting_shortfall: [],
+  // The recovery finding names the options (ride-through category, dynamic reactive support,
+  // faster clearing); none is in the catalogue yet.
+  post_fault_recovery: [],
 };
 
 /**

@@ -22,6 +22,13 @@ export const NEED_RULES: Readonly<
   "fault.making_duty": { needClass: "safety", kind: "device_duty" },
   // Too little room for the generation the feeder is expected to take.
   "hosting.shortfall": { needClass: "hosting", kind: "hosting_shortfall" },
+  // The feeder does not come back after a fault is cleared.
+  ...Object.fromEntries(
+    ["collapse", "low_voltage", "overload"].map((c) => [`recovery.${c}`, {
+      needClass: "planning" as const,
+      kind: "post_fault_recovery" as const,
+    }]),
+  ),
   // Generation feeding faults from the feeder end: the grading works one way only.
   ...Object.fromEntries(
     ["wrong_device", "reverse_pickup", "sympathetic_trip", "blinding", "needs_directional"].map(
@@ -56,6 +63,7 @@ const NEED_KIND_ORDER: readonly NeedKind[] = [
   "line_overload",
   "transformer_overload",
   "device_overload",
+  "post_fault_recovery",
   "hosting_shortfall",
 ];
 
@@ -91,6 +99,10 @@ export function excessPercent(f: Pick<Finding, "code" | "value" | "limit">): num
     // high or too low): the distance from the limit.
     const limit = Math.abs(f.limit);
     return limit > 0 ? 100 * Math.abs(f.value - f.limit) / limit : 100 * Math.abs(f.value);
+  }
+  if (f.code === "recovery.low_voltage" || f.code === "recovery.collapse") {
+    // How far below the recovery threshold (a collapse: all the way).
+    return f.limit > 0 ? 100 * Math.max(f.limit - f.value, 0) / f.limit : 0;
   }
   if (f.code === "hosting.shortfall") {
     // A capacity below its target: the shortfall, % of the target.
@@ -192,6 +204,7 @@ const WHAT: Record<NeedKind, string> = {
     "Generation feeds faults from the feeder end: protection must become directional",
   protection_grading: "Protection settings do not coordinate",
   hosting_shortfall: "Too little room for the generation expected on the feeder",
+  post_fault_recovery: "The feeder does not recover after a fault is cleared",
 };
 
 function summarize(kind: NeedKind, worst: Finding, places: number, cases: string[]): string {

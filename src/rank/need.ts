@@ -25,7 +25,8 @@ export type NeedKind =
   | "device_duty"
   | "protection_direction"
   | "protection_grading"
-  | "hosting_shortfall";
+  | "hosting_shortfall"
+  | "post_fault_recovery";
 
 /** One finding behind a need, reduced to what the evidence needs. */
 export interface NeedEvidence {

@@ -12,6 +12,7 @@ import type { FeederProvenance } from "./run_files.ts";
 import type { FaultStudy } from "../solve/study_faults.ts";
 import type { CoordinationRow } from "./coordination_table.ts";
 import type { FeederHosting } from "../hosting/host_feeder.ts";
+import type { FeederRecovery } from "../recovery/screen_recovery.ts";
 
 /** A switching device with the settings needed to draw its time–current curves. */
 export interface DeviceCurves {
@@ -49,6 +50,8 @@ export interface FeederFile {
   readonly devices: readonly DeviceCurves[];
   /** Hosting capacity per bus and strategy (absent in older files, null when off). */
   readonly hosting?: FeederHosting | null;
+  /** Recovery after faults (absent in older files, null when off or not screened). */
+  readonly recovery?: FeederRecovery | null;
   readonly diagnostics: readonly Diagnostic[];
   readonly caution: string;
 }

@@ -150,6 +150,7 @@ export function feederJson(
       headroom: study?.headroom ?? null,
       devices: study?.devices ?? [],
       hosting: study?.hosting ?? null,
+      recovery: study?.recovery ?? null,
       diagnostics: study?.diagnostics ?? [],
       caution: CAUTION,
     },
