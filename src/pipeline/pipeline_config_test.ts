@@ -623,3 +623,28 @@ Deno.test("parsePipelineConfig() rejects bad hosting strategies with their place
   assert(paths.some((p) => p.includes("strategies") && p.includes("points")), paths.join("; "));
   assert(paths.some((p) => p.includes("strategies") && p.includes("id")), paths.join("; "));
 });
+
+Deno.test("parsePipelineConfig() reads recovery settings: custom ride-through categories beside the presets, an unknown default category is an error", () => {
+  const r = parse(JSON.stringify({
+    recovery: {
+      recoveryThresholdPu: 0.85,
+      defaultCategory: "grid-code-b",
+      categories: {
+        "grid-code-b": { trip: [{ vPu: 0.15, seconds: 0.25 }], cessationPu: 0.2 },
+      },
+      motor: { stallTimeS: 0.2 },
+    },
+  }));
+  const rec = r.value!.recovery;
+  deepStrictEqual(Object.keys(rec.categories).sort(), ["I", "II", "III", "grid-code-b"]);
+  deepStrictEqual(rec.categories["grid-code-b"], {
+    label: "grid-code-b",
+    trip: [{ vPu: 0.15, seconds: 0.25 }],
+    cessationPu: 0.2,
+  });
+  equal(rec.motor.stallTimeS, 0.2);
+  equal(rec.motor.stallVoltagePu, 0.7);
+  const bad = parse(JSON.stringify({ recovery: { defaultCategory: "IV" } }));
+  equal(bad.value, undefined);
+  assert(bad.diagnostics.some((d) => d.message.includes("ride-through category")));
+});
