@@ -62,3 +62,13 @@ Deno.test("studyFeeder() gives every bus of the rural overhead feeder a hosting 
   assert(spread("volt-var-b").spreadKw > spread("unity").spreadKw);
   assertEquals(spread("unity").spreadCriterion, "voltage_change");
 });
+
+Deno.test("studyFeeder() screens recovery after faults: the rural feeder loses generation beyond its recloser's slow clearing, an urban cable feeder loses nothing", () => {
+  const rural = studies.get("MOR-L1")!;
+  const lost = rural.findings.find((f) => f.code === "recovery.generation_lost")!;
+  assert(lost.value > 0 && lost.message.includes("ride-through"), lost.message);
+  assert(rural.recovery!.faultsSimulated > 0 && rural.recovery!.worst !== null);
+  const urban = studies.get("CTY-K1")!;
+  assert(urban.recovery!.faultsSimulated > 0);
+  assertEquals(urban.findings.filter((f) => f.code.startsWith("recovery.")), []);
+});
