@@ -30,6 +30,7 @@ import { worstVoltageColouring } from "./_bus_colouring.ts";
 import { renderFeederSchematic } from "./_feeder_schematic.ts";
 import { renderFaultLevels } from "./_fault_levels.ts";
 import { renderHostingSection } from "./_hosting_section.ts";
+import { renderRecoverySection } from "./_recovery_section.ts";
 
 /** Above this many buses the schematic is left out (unreadable, and megabytes of SVG). */
 export const SCHEMATIC_MAX_BUSES = 2000;
@@ -103,7 +104,7 @@ export async function renderReportHead(ctx: ReportContext): Promise<string> {
           <section id="feeders" aria-labelledby="feeders-h">
             <h2 id="feeders-h">Feeder pages</h2>
             <p
-              class="note">One section per feeder of the run: key figures, needs, generation headroom, hosting capacity, voltage profile, schematic and protection curves.</p>
+              class="note">One section per feeder of the run: key figures, needs, generation headroom, hosting capacity, recovery after faults, voltage profile, schematic and protection curves.</p>
   `.__html.trimStart();
 }
 
@@ -222,6 +223,8 @@ export async function renderFeederPage(file: FeederFile, ctx: ReportContext): Pr
     ${renderHeadroom(file)}
     <h3>Hosting capacity</h3>
     ${hosting}
+    <h3>Recovery after faults</h3>
+    ${renderRecoverySection(file)}
     <h3>Voltage profile</h3>
     ${figure(
       profile.svg,

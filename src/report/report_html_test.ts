@@ -84,6 +84,7 @@ Deno.test("renderFeederPage() gives one section with every part of the feeder pa
       "Key figures",
       "Needs",
       "Generation headroom",
+      "Recovery after faults",
       "Voltage profile",
       "Schematic",
       "Protection: time–current curves",
