@@ -34,8 +34,8 @@ Deno.test("runStudy() writes the run folder, identical between runs but for run.
       "hosting.csv",
       "protection.csv",
       "queue.csv",
-      "recovery.csv",
       "ranking.csv",
+      "recovery.csv",
       "report.html",
       "run.json",
     ]);
