@@ -32,36 +32,33 @@ const presetOf = <T extends Record<string, readonly { x: number; y: number }[]>>
   presets: T,
 ) => z.enum(Object.keys(presets) as [string, ...string[]]).transform((name) => presets[name]!);
 
+/** A curve-driven mode: a preset's name or points of one's own. */
+function curveMode<M extends "volt_var" | "power_factor_of_p">(
+  mode: M,
+  presets: Record<string, readonly { x: number; y: number }[]>,
+) {
+  return z.strictObject({
+    mode: z.literal(mode),
+    preset: presetOf(presets).optional(),
+    points: points.optional(),
+  }).transform((r, ctx): StrategyReactive => {
+    const p = r.points ?? r.preset;
+    if (p === undefined) {
+      ctx.addIssue({ code: "custom", input: r, message: "needs a preset or points" });
+      return z.NEVER;
+    }
+    return { mode, points: p };
+  });
+}
+
 const reactiveSchema: z.ZodType<StrategyReactive, unknown> = z.discriminatedUnion("mode", [
   z.strictObject({ mode: z.literal("unity") }),
   z.strictObject({
     mode: z.literal("fixed_power_factor"),
     powerFactor: z.number().min(0.7).max(1),
   }),
-  z.strictObject({
-    mode: z.literal("volt_var"),
-    preset: presetOf(VOLT_VAR_PRESETS).optional(),
-    points: points.optional(),
-  }).transform((r, ctx): StrategyReactive => {
-    const p = r.points ?? r.preset;
-    if (p === undefined) {
-      ctx.addIssue({ code: "custom", input: r, message: "needs a preset or points" });
-      return z.NEVER;
-    }
-    return { mode: "volt_var", points: p };
-  }),
-  z.strictObject({
-    mode: z.literal("power_factor_of_p"),
-    preset: presetOf(POWER_FACTOR_OF_P_PRESETS).optional(),
-    points: points.optional(),
-  }).transform((r, ctx): StrategyReactive => {
-    const p = r.points ?? r.preset;
-    if (p === undefined) {
-      ctx.addIssue({ code: "custom", input: r, message: "needs a preset or points" });
-      return z.NEVER;
-    }
-    return { mode: "power_factor_of_p", points: p };
-  }),
+  curveMode("volt_var", VOLT_VAR_PRESETS),
+  curveMode("power_factor_of_p", POWER_FACTOR_OF_P_PRESETS),
 ]);
 
 const strategySchema: z.ZodType<HostingStrategy, unknown> = z.strictObject({

@@ -4,7 +4,7 @@
  * provenance lines and header first (faultsCsvHead), then each feeder's rows.
  */
 import type { FeederFile } from "./feeder_file.ts";
-import { csv, type CsvProvenance, provenanceLines } from "./run_files.ts";
+import { type CsvProvenance, csvRows, provenanceLines } from "./run_files.ts";
 
 export const FAULT_COLUMNS = [
   "feeder",
@@ -50,7 +50,5 @@ export function faultsCsvRows(file: FeederFile): string {
     b.min.ik1Ka,
     b.capacitiveEarthFaultA,
   ]);
-  // The rows without their header line.
-  const text = csv(FAULT_COLUMNS, rows);
-  return text.slice(text.indexOf("\n") + 1);
+  return csvRows(FAULT_COLUMNS, rows);
 }

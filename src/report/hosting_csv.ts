@@ -5,7 +5,7 @@
  * written a feeder at a time like faults.csv.
  */
 import type { FeederFile } from "./feeder_file.ts";
-import { csv, type CsvProvenance, provenanceLines } from "./run_files.ts";
+import { type CsvProvenance, csvRows, provenanceLines } from "./run_files.ts";
 
 export const HOSTING_COLUMNS = [
   "feeder",
@@ -29,7 +29,7 @@ export function hostingCsvHead(p: CsvProvenance): string {
 export function hostingCsvRows(file: FeederFile): string {
   const h = file.hosting;
   if (h === undefined || h === null || h.buses.length === 0) return "";
-  const text = csv(
+  return csvRows(
     HOSTING_COLUMNS,
     h.buses.map((b) => [
       file.feederId,
@@ -44,7 +44,6 @@ export function hostingCsvRows(file: FeederFile): string {
       b.screenedKw,
     ]),
   );
-  return text.slice(text.indexOf("\n") + 1);
 }
 
 export const QUEUE_COLUMNS = [
@@ -72,7 +71,7 @@ export function queueCsvHead(p: CsvProvenance): string {
 export function queueCsvRows(file: FeederFile): string {
   const q = file.hosting?.queue;
   if (q === undefined || q.length === 0) return "";
-  const text = csv(
+  return csvRows(
     QUEUE_COLUMNS,
     q.map((r) => [
       file.feederId,
@@ -90,5 +89,4 @@ export function queueCsvRows(file: FeederFile): string {
       r.where?.id ?? null,
     ]),
   );
-  return text.slice(text.indexOf("\n") + 1);
 }

@@ -4,7 +4,7 @@
  * caution in the `#` lines says that a licensed protection engineer must verify it.
  */
 import type { FeederFile } from "./feeder_file.ts";
-import { csv, type CsvProvenance, provenanceLines } from "./run_files.ts";
+import { type CsvProvenance, csvRows, provenanceLines } from "./run_files.ts";
 
 export const PROTECTION_COLUMNS = [
   "feeder",
@@ -45,6 +45,5 @@ export function protectionCsvRows(file: FeederFile): string {
     ])
   );
   if (rows.length === 0) return "";
-  const text = csv(PROTECTION_COLUMNS, rows);
-  return text.slice(text.indexOf("\n") + 1);
+  return csvRows(PROTECTION_COLUMNS, rows);
 }

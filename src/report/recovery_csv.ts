@@ -5,7 +5,7 @@
  * feeder at a time like faults.csv.
  */
 import type { FeederFile } from "./feeder_file.ts";
-import { csv, type CsvProvenance, provenanceLines } from "./run_files.ts";
+import { type CsvProvenance, csvRows, provenanceLines } from "./run_files.ts";
 
 export const RECOVERY_COLUMNS = [
   "feeder",
@@ -35,7 +35,7 @@ export function recoveryCsvHead(p: CsvProvenance): string {
 export function recoveryCsvRows(file: FeederFile): string {
   const r = file.recovery;
   if (r === undefined || r === null || r.faults.length === 0) return "";
-  const text = csv(
+  return csvRows(
     RECOVERY_COLUMNS,
     r.faults.map((o) => [
       file.feederId,
@@ -57,5 +57,4 @@ export function recoveryCsvRows(file: FeederFile): string {
       o.overloads.map((x) => `${x.branch}:${x.percent}%`).join(" "),
     ]),
   );
-  return text.slice(text.indexOf("\n") + 1);
 }

@@ -27,6 +27,15 @@ export function csv(
   }) + "\n";
 }
 
+/** The rows of a CSV without its header line: what a file written a feeder at a time appends. */
+export function csvRows(
+  columns: readonly string[],
+  rows: readonly (readonly (string | number | null)[])[],
+): string {
+  const text = csv(columns, rows);
+  return text.slice(text.indexOf("\n") + 1);
+}
+
 /** What a CSV file of a run says about where it comes from, as `#` lines above its header. */
 export interface CsvProvenance {
   readonly version: string;
