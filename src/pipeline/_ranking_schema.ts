@@ -69,6 +69,7 @@ export const costTableSchema: z.ZodType<CostTable, unknown> = z.strictObject({
   currency: z.string().min(1).default(C.currency),
   source: z.string().min(1).default(C.source),
   reactiveSettingPerGenerator: cost.default(C.reactiveSettingPerGenerator),
+  rideThroughPerGenerator: cost.default(C.rideThroughPerGenerator),
   tapSetpointChange: cost.default(C.tapSetpointChange),
   voltageRegulator: cost.default(C.voltageRegulator),
   transformerFixed: cost.default(C.transformerFixed),

@@ -57,8 +57,8 @@ export const REMEDY_ORDER: Readonly<Record<NeedKind, readonly RemedyKind[]>> = {
   // works for capacity are the planner's choice among the per-bus binding criteria.
   hosting_shortfall: [],
   // The recovery finding names the options (ride-through category, dynamic reactive support,
-  // faster clearing); none is in the catalogue yet.
-  post_fault_recovery: [],
+  // faster clearing); the catalogue holds the first.
+  post_fault_recovery: ["ride_through"],
 };
 
 /**
@@ -104,7 +104,55 @@ export function* candidatesFor(
         ? dutySwitchgearCandidates(need, ctx)
         : switchgearCandidates(need, ctx);
       break;
+    case "ride_through":
+      yield rideThroughCandidate(ctx);
+      break;
   }
+}
+
+/** The category a ride-through remedy requires: the preset that rides through the most. */
+export const REMEDY_RIDE_THROUGH_CATEGORY = "III";
+
+/**
+ * Every generator not already in the remedy's category required to meet it (IEEE 1547-2018
+ * Category III: trips only below 0.50 pu after 2 s or 0.88 pu after 21 s [memory]).
+ */
+function rideThroughCandidate(ctx: CandidateContext): Candidate {
+  const g = ctx.form.generators, want = REMEDY_RIDE_THROUGH_CATEGORY;
+  const chosen: number[] = [];
+  for (let i = 0; i < g.n; i++) {
+    if ((g.rideThrough[i] ?? ctx.study.recovery.defaultCategory) !== want) chosen.push(i);
+  }
+  if (chosen.length === 0) {
+    return {
+      kind: "ride_through",
+      description: `every generator already meets ride-through Category ${want}`,
+      items: [],
+      form: null,
+    };
+  }
+  const set = new Set(chosen);
+  return {
+    kind: "ride_through",
+    description: `Require ride-through Category ${want} of ${
+      chosen.map((i) => `"${g.ids[i]}"`).join(", ")
+    }`,
+    items: [
+      item(
+        "ride-through requirement of a generator",
+        chosen.length,
+        "each",
+        ctx.costs.rideThroughPerGenerator,
+      ),
+    ],
+    form: {
+      ...ctx.form,
+      generators: {
+        ...g,
+        rideThrough: g.rideThrough.map((r, i) => (set.has(i) ? want : r)),
+      },
+    },
+  };
 }
 
 function item(what: string, quantity: number, unit: string, unitCost: number): RemedyItem {

@@ -36,6 +36,8 @@ export interface CostTable {
   readonly transformerPerMva: number;
   /** Replacing a switching device with a higher-rated one, each. */
   readonly switchgearReplacement: number;
+  /** Requiring a stronger ride-through category of one generator (settings and the owner's tests). */
+  readonly rideThroughPerGenerator: number;
   /** Adding a directional element to a relay (voltage transformers, relay function), each. */
   readonly directionalElement: number;
   /** New settings of one relay (study, test and commissioning). */
@@ -86,6 +88,7 @@ export const DEFAULT_COST_TABLE: CostTable = {
   transformerPerMva: 18,
   switchgearReplacement: 30,
   directionalElement: 12,
+  rideThroughPerGenerator: 4,
   protectionSettingPerRelay: 1.5,
   conductors: [
     {

@@ -10,6 +10,7 @@ import { type CaseSettings, studyCases, type StudySettings } from "../pipeline/s
 import { studyFaults } from "../solve/study_faults.ts";
 import { checkFaults } from "../checks/check_faults.ts";
 import { checkProtection } from "../checks/check_protection.ts";
+import { screenRecovery } from "../recovery/screen_recovery.ts";
 import type { Finding } from "../checks/finding.ts";
 
 import type { CostTable, RemedyOptions } from "./cost_table.ts";
@@ -74,6 +75,12 @@ export function designRemedies(
           ...checkProtection(trial, f, s.settings.protection, lean.limits.lvMaxKv),
         );
       }
+    }
+    // The recovery screen for a recovery need (it re-runs the faults of the protection study).
+    if (need.kind === "post_fault_recovery" && s.settings.faults.enabled) {
+      findings.push(
+        ...screenRecovery(trial, lean, s.settings.faults, s.settings.recovery).findings,
+      );
     }
     const left = findings.filter((f) => needKindOf(form, f) === need.kind);
     if (left.length > 0) {

@@ -45,7 +45,8 @@ export type RemedyKind =
   | "reconductor"
   | "transformer"
   | "switchgear"
-  | "protection_scheme";
+  | "protection_scheme"
+  | "ride_through";
 
 /** A line of a remedy's bill of quantities. */
 export interface RemedyItem {

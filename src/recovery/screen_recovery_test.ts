@@ -13,6 +13,7 @@ import { retainedScratch, retainedVoltages } from "../solve/retained_voltage.ts"
 import { DEFAULT_RECOVERY_SETTINGS, RIDE_THROUGH_PRESETS } from "./recovery_settings.ts";
 import { rideThrough } from "./ride_through.ts";
 import { screenRecovery } from "./screen_recovery.ts";
+import { studyFeeder } from "../pipeline/study_feeder.ts";
 
 Deno.test("ride-through presets equal the IEEE 1547-2018 default under-voltage trip settings (REFERENCES.md E for Categories II and III; Category I and the cessation voltages [memory])", () => {
   assertEquals(RIDE_THROUGH_PRESETS.II!.trip, [
@@ -156,4 +157,28 @@ Deno.test("a post-fault state with no load-flow solution is reported as a collap
   assert(collapse !== undefined, JSON.stringify(out.recovery?.worst));
   assertEquals(collapse.severity, "violation");
   assert(out.recovery!.worst!.collapsed);
+});
+
+Deno.test("lost generation overloads a line after a fault; the ride-through remedy (Category III) is checked by screening again and removes the need", async () => {
+  // Invented test feeder: 1.5 MW of demand at B2 fed mostly by a 1.4 MW Category II unit
+  // beside it; the lines are rated 40 A (1.39 MVA at 20 kV): 1.5 MW alone overloads L1.
+  const files = twoRelayFeeder();
+  files["line_types.csv"] = files["line_types.csv"]!.replace(",400\n", ",40\n");
+  files["generators.csv"] = "id,bus,kind,rated_power [kVA],active_power [kW],ride_through\n" +
+    "PV2,B2,converter,1400,1400,II\n";
+  files["loads.csv"] = "id,bus,peak_p [kW],peak_q [kvar],min_p [kW],min_q [kvar]\n" +
+    "D2,B2,1500,0,1500,0\n";
+  const form = await formOfTables(files);
+  const settings = {
+    ...DEFAULT_PIPELINE,
+    cases: [{ id: "peak-dg", demand: "peak" as const, demandScale: 1, generationScale: 1 }],
+    hosting: { ...DEFAULT_PIPELINE.hosting, enabled: false },
+  };
+  const study = studyFeeder(form, settings);
+  const over = study.findings.find((f) => f.code === "recovery.overload")!;
+  assertEquals(over.where.id, "L1");
+  const need = study.needs.find((n) => n.kind === "post_fault_recovery")!;
+  assertEquals(need.remedy?.kind, "ride_through");
+  assertEquals(need.remedy?.description, 'Require ride-through Category III of "PV2"');
+  assertEquals(need.remedy?.cost, DEFAULT_PIPELINE.costs.rideThroughPerGenerator);
 });
