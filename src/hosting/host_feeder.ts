@@ -254,6 +254,18 @@ export function hostFeeder(
     });
   });
   const diagnostics: Diagnostic[] = [];
+  const known = new Set(hosting.strategies.map((s) => s.id.toLowerCase()));
+  for (const a of form.applications) {
+    if (a.strategy === null || known.has(a.strategy.toLowerCase())) continue;
+    diagnostics.push(makeDiagnostic(
+      "hosting.unknown_strategy",
+      "warning",
+      `Feeder "${form.feederId}": application "${a.id}" names reactive strategy "${a.strategy}", which the pipeline does not define; it is checked with "${
+        hosting.strategies[0]!.id
+      }"`,
+      { feederId: form.feederId },
+    ));
+  }
   if (
     faultBase !== null && hosting.protection && faultBase.protection.enabled && !protectionChecked
   ) {

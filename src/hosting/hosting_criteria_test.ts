@@ -146,13 +146,16 @@ Deno.test("queue check: applications in queue order, each on top of those that f
   const files = twoBusFeeder({ rOhm: 4, xOhm: 8, loadPKw: 0 });
   files["generation_queue.csv"] =
     "application_id,bus_id,size [kW],unit_kind,reactive_strategy,queue_position\n" +
-    "A3,B2,500,converter,,3\nA1,B2,1000,converter,,1\nA2,B2,800,converter,,2\nA4,B2,100,converter,,4\n";
+    "A3,B2,500,converter,,3\nA1,B2,1000,converter,,1\nA2,B2,800,converter,,2\nA4,B2,100,converter,made-up,4\n";
   const form = await formOfTables(files);
   const h = {
     ...DEFAULT_HOSTING_SETTINGS,
     strategies: DEFAULT_HOSTING_SETTINGS.strategies.slice(0, 2),
   };
-  const q = hostFeeder(form, LINE_SETTINGS, h, null).hosting!.queue;
+  const out = hostFeeder(form, LINE_SETTINGS, h, null);
+  const q = out.hosting!.queue;
+  // An unknown strategy name is checked with the first strategy, and said.
+  assertEquals(out.diagnostics.map((d) => d.code), ["hosting.unknown_strategy"]);
   // Exact 2 % limit at 2.129 MW (DistFlow, host_feeder_test.ts): 1000 + 800 fit, +500 does
   // not (unity) but does at 0.95 absorbing; 100 more on 1800 fits.
   assertEquals(q.map((r) => [r.application, r.verdict, r.upgrade, r.alternative, r.criterion]), [
