@@ -2,7 +2,8 @@
  * The hosting capacity part of a feeder page: per reactive-power strategy the lowest and
  * median per-bus capacity and the capacity spread with demand, with the gain of each
  * strategy over the first (the reference); the capacity of every bus against its distance
- * from the source; and the buses with the lowest capacity, with what binds and where.
+ * from the source; the buses with the lowest capacity, with what binds and where; and the
+ * generation applications in queue order, each with its verdict and what stops it.
  */
 import type { FeederFile } from "./feeder_file.ts";
 import type {
@@ -12,6 +13,7 @@ import type {
 } from "../hosting/host_feeder.ts";
 import type { HostingCriterion } from "../hosting/hosting_margin.ts";
 import type { FindingPlace } from "../checks/finding.ts";
+import type { QueueRow } from "../hosting/check_queue.ts";
 import { type Html, html, raw } from "./_html.ts";
 import { formatNumber } from "./_number_text.ts";
 import { CAUTION } from "./run_files.ts";
@@ -191,6 +193,67 @@ function renderBusTable(
   `;
 }
 
+const UPGRADE_WORDS: Readonly<Record<NonNullable<QueueRow["upgrade"]>, string>> = {
+  control_setting: "control setting",
+  reinforcement: "reinforcement",
+  protection: "protection",
+};
+
+/** An application's verdict in plain words; strategy ids are shown by their names. */
+export function queueVerdictWords(r: QueueRow, names: ReadonlyMap<string, string>): string {
+  if (r.verdict === "fits") return "fits";
+  if (r.verdict === "not_studied") return "not studied";
+  if (r.upgrade === null) return "needs works";
+  const words = `needs works: ${
+    UPGRADE_WORDS[r.upgrade] ?? String(r.upgrade).replaceAll("_", " ")
+  }`;
+  return r.upgrade === "control_setting" && r.alternative !== null
+    ? `${words} — use ${names.get(r.alternative) ?? r.alternative}`
+    : words;
+}
+
+function renderQueueTable(h: FeederHosting, names: ReadonlyMap<string, string>): Html {
+  if (h.queue.length === 0) return html``;
+  const stops = (r: QueueRow): string =>
+    r.criterion === null
+      ? "–"
+      : `${criterionWords(r.criterion, r.code ?? "")}${
+        r.where === null ? "" : ` ${placeText(r.where)}`
+      }`;
+  return html`
+    <h4>Generation applications in queue order</h4>
+    <p>Each application is checked on top of the earlier ones that fit; one that needs works stays out of the base for later ones.</p>
+    <table class="hosting-queue">
+      <thead>
+        <tr>
+          <th scope="col" class="num">Position</th>
+          <th scope="col">Application</th>
+          <th scope="col">Bus</th>
+          <th scope="col" class="num">Size (kW)</th>
+          <th scope="col">Unit kind</th>
+          <th scope="col">Strategy</th>
+          <th scope="col">Verdict</th>
+          <th scope="col">What stops it</th>
+        </tr>
+      </thead>
+      <tbody>${h.queue.map((r) =>
+        html`
+          <tr>
+            <td class="num">${formatNumber(r.position)}</td>
+            <td>${r.application}</td>
+            <td>${r.bus}</td>
+            <td class="num">${formatNumber(r.sizeKw)}</td>
+            <td>${r.kind === "converter" ? "converter-connected" : "synchronous"}</td>
+            <td>${names.get(r.strategy) ?? r.strategy}</td>
+            <td>${queueVerdictWords(r, names)}</td>
+            <td>${stops(r)}</td>
+          </tr>
+        `
+      )}</tbody>
+    </table>
+  `;
+}
+
 function notStudied(file: FeederFile): Html {
   const why = file.diagnostics.find((d) => d.code === "hosting.not_studied");
   return why === undefined
@@ -223,6 +286,7 @@ export async function renderHostingSection(file: FeederFile, idPrefix: string): 
       }</figure>`}
     ${chart.notes.map((n) => html`<p class="note">${n}</p>`)}
     ${renderBusTable(h, names, km)}
+    ${renderQueueTable(h, names)}
     ${h.protectionChecked ? "" : html`
       <p
         class="note">The protection criterion is not included on this feeder: its protection was not checked, so the capacities may exceed what the protection allows.</p>

@@ -4,6 +4,7 @@ import {
   criterionWords,
   gainPercent,
   HOSTING_TABLE_BUSES,
+  queueVerdictWords,
   renderHostingSection,
 } from "./_hosting_section.ts";
 import { busDistances, hostingChart } from "./_hosting_chart.ts";
@@ -11,6 +12,7 @@ import { CAUTION } from "./run_files.ts";
 import type { FeederFile } from "./feeder_file.ts";
 import type { FeederHosting, HostingBusRow } from "../hosting/host_feeder.ts";
 import type { HostingCriterion } from "../hosting/hosting_margin.ts";
+import type { QueueRow } from "../hosting/check_queue.ts";
 import { reportFixture } from "../../tests/fixtures/report_fixtures.ts";
 
 const count = (text: string, re: RegExp) => [...text.matchAll(re)].length;
@@ -179,6 +181,119 @@ Deno.test("renderHostingSection() says why a feeder has no hosting capacity", as
   assert(
     meshed.includes("was not studied on this feeder: Feeder &quot;SKR-F1&quot;: it is meshed"),
   );
+});
+
+/** Invented Norvessa applications: one fits, one needs a control setting, one reinforcement. */
+const QUEUE: readonly QueueRow[] = [
+  {
+    application: "GA-0117",
+    position: 1,
+    bus: "SKR-F1-03",
+    sizeKw: 800,
+    kind: "converter",
+    strategy: "unity",
+    verdict: "fits",
+    upgrade: null,
+    alternative: null,
+    criterion: null,
+    code: null,
+    where: null,
+  },
+  {
+    application: "GA-0124",
+    position: 2,
+    bus: "SKR-F1-07",
+    sizeKw: 1250,
+    kind: "converter",
+    strategy: "unity",
+    verdict: "needs_works",
+    upgrade: "control_setting",
+    alternative: "volt_var",
+    criterion: "overvoltage",
+    code: "limit.overvoltage",
+    where: { kind: "bus", id: "SKR-F1-07" },
+  },
+  {
+    application: "GA-0131",
+    position: 3,
+    bus: "SKR-F1-05",
+    sizeKw: 2600,
+    kind: "synchronous",
+    strategy: "volt_var",
+    verdict: "needs_works",
+    upgrade: "reinforcement",
+    alternative: null,
+    criterion: "thermal",
+    code: "limit.thermal",
+    where: { kind: "branch", id: "SKR-F1-01-IN" },
+  },
+];
+
+Deno.test("renderHostingSection() lists the generation applications in queue order", async () => {
+  const page = (await renderHostingSection(withHosting(hosting({ queue: QUEUE })), "x-hc")).__html;
+  assert(page.includes("Generation applications in queue order"));
+  assert(page.includes("checked on top of the earlier ones that fit"));
+  assert(page.includes("stays out of the base for later ones"));
+  const body = page.slice(page.indexOf('<table class="hosting-queue"'));
+  assertEquals(count(body, /<tr>/g), 1 + QUEUE.length);
+  assert(body.indexOf("GA-0117") < body.indexOf("GA-0124"));
+  assert(body.indexOf("GA-0124") < body.indexOf("GA-0131"));
+  assert(body.includes(">fits<"));
+  assert(
+    body.includes("needs works: control setting — use volt-var, IEEE 1547 Category B default"),
+  );
+  assert(body.includes("needs works: reinforcement"));
+  assert(body.includes("overvoltage at bus SKR-F1-07"));
+  assert(body.includes("thermal loading at branch SKR-F1-01-IN"));
+  assert(body.includes("1,250") && body.includes("2,600"));
+  assert(body.includes("converter-connected") && body.includes("synchronous"));
+  assert(page.indexOf("hosting-queue") < page.indexOf(CAUTION));
+});
+
+Deno.test("renderHostingSection() shows no queue table for an empty queue", async () => {
+  const page = (await renderHostingSection(withHosting(hosting()), "x-hc")).__html;
+  assert(!page.includes("hosting-queue") && !page.includes("queue order"));
+});
+
+Deno.test("renderHostingSection() escapes the queue's ids and words", async () => {
+  const queue: QueueRow[] = [{
+    ...QUEUE[1]!,
+    application: '<b>"GA"&',
+    bus: "<i>bus</i>",
+    alternative: "<s>alt</s>",
+    criterion: "protection",
+    code: "protection.<u>blind</u>",
+    where: { kind: "branch", id: "R<1>" },
+  }];
+  const page = (await renderHostingSection(withHosting(hosting({ queue })), "x-hc")).__html;
+  const body = page.slice(page.indexOf('<table class="hosting-queue"'));
+  assert(!/<(b|i|s|u)>/.test(body));
+  assert(body.includes("&lt;b&gt;&quot;GA&quot;&amp;"));
+  assert(body.includes("&lt;i&gt;bus&lt;/i&gt;"));
+  assert(body.includes("control setting — use &lt;s&gt;alt&lt;/s&gt;"));
+  assert(body.includes("protection: &lt;u&gt;blind&lt;/u&gt; at branch R&lt;1&gt;"));
+});
+
+Deno.test("queueVerdictWords() gives each verdict in plain words", () => {
+  const names = new Map([["volt_var", "volt-var"]]);
+  const base = QUEUE[0]!;
+  const cases: [Partial<QueueRow>, string][] = [
+    [{ verdict: "fits" }, "fits"],
+    [{ verdict: "not_studied" }, "not studied"],
+    [
+      { verdict: "needs_works", upgrade: "control_setting", alternative: "volt_var" },
+      "needs works: control setting — use volt-var",
+    ],
+    [
+      { verdict: "needs_works", upgrade: "control_setting", alternative: "pf_fixed" },
+      "needs works: control setting — use pf_fixed",
+    ],
+    [{ verdict: "needs_works", upgrade: "reinforcement" }, "needs works: reinforcement"],
+    [{ verdict: "needs_works", upgrade: "protection" }, "needs works: protection"],
+  ];
+  for (const [over, want] of cases) {
+    assertEquals(queueVerdictWords({ ...base, ...over }, names), want);
+  }
 });
 
 Deno.test("gainPercent() and criterionWords() give the table's words", () => {
