@@ -170,13 +170,13 @@ export function hostFeeder(
     let bound:
       | { pKw: number; criterion: HostingCriterion; code: string; where: FindingPlace }
       | null = null;
-    if (dutyScreen !== null && dutyScreen[k]! < pMax) {
-      upper = Math.max(dutyScreen[k]!, 0);
+    if (dutyScreen !== null && dutyScreen.limitKw[k]! < pMax) {
+      upper = Math.max(dutyScreen.limitKw[k]!, 0);
       bound = {
         pKw: upper,
         criterion: "breaker_duty",
         code: "fault.breaking_duty",
-        where: dutyWhere(form, faultBase.study!, k, upper, faultBase.settings, hosting),
+        where: { kind: "branch", id: dutyScreen.device[k]! },
       };
     }
     if (!needsTrial || upper <= 0) return bound;
@@ -412,31 +412,6 @@ export function faultCriteria(
     }
   }
   return null;
-}
-
-/** The device whose duty limits a converter of pKw at bus k (for the row's "where"). */
-function dutyWhere(
-  form: FeederForm,
-  study: FaultStudy,
-  k: number,
-  pKw: number,
-  settings: FaultSettings,
-  hosting: HostingSettings,
-): FindingPlace {
-  // The screen gives the limit per bus only; name the device by re-running it per device.
-  let best = { id: form.feederId, p: Infinity };
-  for (const d of study.devices) {
-    const one = screenConverterDuty(
-      form,
-      { ...study, devices: [d] },
-      settings,
-      hosting.strategies[0]!,
-    );
-    if (one[k]! < best.p) best = { id: d.id, p: one[k]! };
-  }
-  return Number.isFinite(best.p) && Math.abs(best.p - pKw) < 1e-6 * Math.max(1, pKw)
-    ? { kind: "branch", id: best.id }
-    : { kind: "feeder", id: form.feederId };
 }
 
 /**

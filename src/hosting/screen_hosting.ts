@@ -262,17 +262,19 @@ function place(form: FeederForm, kind: "bus" | "branch", i: number): FindingPlac
  * Largest converter (active power, kW) at each bus before a switching device's breaking or
  * making duty goes past its rating, from the base short-circuit study: the unit's fault
  * current (limit × rating) adds to the side of each device it feeds. Devices already past
- * their rating without the unit do not bind. Infinity where nothing limits.
+ * their rating without the unit do not bind. Infinity where nothing limits; the device that
+ * does, per bus.
  */
 export function screenConverterDuty(
   form: FeederForm,
   faults: FaultStudy,
   fault: FaultSettings,
   strategy: HostingStrategy,
-): Float64Array {
+): { readonly limitKw: Float64Array; readonly device: readonly (string | null)[] } {
   const n = form.nBus;
   const out = new Float64Array(n).fill(Infinity);
-  if (faults.devices.length === 0) return out;
+  const device: (string | null)[] = new Array(n).fill(null);
+  if (faults.devices.length === 0) return { limitKw: out, device };
   // Euler numbering: bus i is in the subtree of m when tin[m] ≤ tin[i] < tout[m].
   const size = new Int32Array(n).fill(1);
   for (let k = n - 1; k > 0; k--) size[form.parent[k]!]! += size[k]!;
@@ -307,8 +309,11 @@ export function screenConverterDuty(
     for (let k = 1; k < n; k++) {
       const sub = tin[k]! >= tin[m]! && tin[k]! < tin[m]! + size[m]!;
       const lim = sub ? inside : outside;
-      if (lim < out[k]!) out[k] = lim;
+      if (lim < out[k]!) {
+        out[k] = lim;
+        device[k] = row.id;
+      }
     }
   }
-  return out;
+  return { limitKw: out, device };
 }
