@@ -43,6 +43,14 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
       assertEquals(n.needClass, "hosting");
       assert(n.worst.value < n.worst.limit, n.summary);
     }
+    // On the rural feeder a connection rule is enough: absorbing at 0.95 takes the forecast
+    // (the hosting study checked it with full load flows) and unlocks the difference.
+    const ruralShort = shortfall.find((n) => n.feederId === "MOR-L1")!;
+    assertEquals(ruralShort.remedy?.kind, "connection_strategy");
+    assert(
+      ruralShort.remedy!.capacityUnlockedMw! > 8,
+      String(ruralShort.remedy!.capacityUnlockedMw),
+    );
     const perCost = core.slice(1, 4).map((n) => n.benefitPerCost!);
     assert(perCost[0]! >= perCost[1]! && perCost[1]! >= perCost[2]!);
     // The old 16 kA breaker gives way to the next standard rating that interrupts the

@@ -70,6 +70,7 @@ export const costTableSchema: z.ZodType<CostTable, unknown> = z.strictObject({
   source: z.string().min(1).default(C.source),
   reactiveSettingPerGenerator: cost.default(C.reactiveSettingPerGenerator),
   rideThroughPerGenerator: cost.default(C.rideThroughPerGenerator),
+  connectionRulePerFeeder: cost.default(C.connectionRulePerFeeder),
   tapSetpointChange: cost.default(C.tapSetpointChange),
   voltageRegulator: cost.default(C.voltageRegulator),
   transformerFixed: cost.default(C.transformerFixed),

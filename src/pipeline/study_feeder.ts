@@ -171,7 +171,7 @@ export function studyFeeder(form: FeederForm, settings: StudySettings): FeederSt
     ...(hosted.hosting === null ? [] : checkHostingTarget(form, hosted.hosting, settings.hosting)),
   ].sort(compareFindings);
   const assessed = cases.status === "studied"
-    ? assessFeeder(form, settings, findings)
+    ? assessFeeder(form, settings, findings, hosted.hosting)
     : { needs: [], headroom: null };
   return {
     ...cases,

@@ -9,6 +9,7 @@ import { BRANCH_LINE, type FeederForm, GENERATOR_INDUCTION } from "../model/feed
 import type { ReactiveCurve, ReactiveMode } from "../model/network.ts";
 import type { CatalogueConductor, CostTable, RemedyOptions } from "./cost_table.ts";
 import type { NeedKind, RemedyItem, RemedyKind } from "./need.ts";
+import type { FeederHosting } from "../hosting/host_feeder.ts";
 import type { NeedDraft } from "./classify_needs.ts";
 import { studyCases, type StudySettings } from "../pipeline/study_feeder.ts";
 import {
@@ -32,6 +33,10 @@ export interface Candidate {
   /** The changed feeder, or null when the kind cannot make one here (the reason above). */
   readonly form: FeederForm | null;
   readonly protectionSettings?: readonly ProposedSetting[];
+  /** Already checked with full load flows by the study named (no second study). */
+  readonly checkedBy?: string;
+  /** Capacity it unlocks where the study that checked it says so, MW. */
+  readonly unlocksMw?: number;
 }
 
 export interface CandidateContext {
@@ -40,6 +45,8 @@ export interface CandidateContext {
   readonly costs: CostTable;
   readonly options: RemedyOptions;
   readonly lvMaxKv: number;
+  /** The feeder's hosting study, where it ran. */
+  readonly hosting?: FeederHosting | null;
 }
 
 /** Remedy kinds tried per need kind, in order. */
@@ -53,9 +60,9 @@ export const REMEDY_ORDER: Readonly<Record<NeedKind, readonly RemedyKind[]>> = {
   device_duty: ["switchgear"],
   protection_direction: ["protection_scheme"],
   protection_grading: ["protection_scheme"],
-  // The hosting study itself says which reactive strategy would do (the finding's message);
-  // works for capacity are the planner's choice among the per-bus binding criteria.
-  hosting_shortfall: [],
+  // A reactive strategy the hosting study found enough; works for capacity are the planner's
+  // choice among the per-bus binding criteria.
+  hosting_shortfall: ["connection_strategy"],
   // The recovery finding names the options (ride-through category, dynamic reactive support,
   // faster clearing); the catalogue holds the first.
   post_fault_recovery: ["ride_through"],
@@ -107,6 +114,38 @@ export function* candidatesFor(
     case "ride_through":
       yield rideThroughCandidate(ctx);
       break;
+    case "connection_strategy":
+      yield* connectionCandidates(need, ctx);
+      break;
+  }
+}
+
+/**
+ * For a hosting shortfall: each reactive strategy of the pipeline whose spread capacity (the
+ * hosting study's, confirmed with full load flows) reaches the target, cheapest rule first
+ * (all cost the same; the one that takes the most wins the order).
+ */
+function* connectionCandidates(need: NeedDraft, ctx: CandidateContext): Generator<Candidate> {
+  const h = ctx.hosting, ref = h?.strategies[0];
+  if (h === undefined || h === null || ref === undefined) return;
+  const targetMw = need.worst.limit;
+  const enough = h.strategies.slice(1).filter((s) => s.spreadKw / 1000 >= targetMw)
+    .sort((a, b) => b.spreadKw - a.spreadKw);
+  for (const s of enough) {
+    yield {
+      kind: "connection_strategy",
+      description: `Connect new generation on this feeder with ${s.label}: it takes ${
+        (s.spreadKw / 1000).toFixed(2)
+      } MW spread with demand, against ${targetMw.toFixed(2)} MW expected (${
+        (ref.spreadKw / 1000).toFixed(2)
+      } MW with ${ref.label})`,
+      items: [
+        item("connection rule for new generation", 1, "feeder", ctx.costs.connectionRulePerFeeder),
+      ],
+      form: null,
+      checkedBy: "the hosting study",
+      unlocksMw: Math.round((s.spreadKw - ref.spreadKw) / 10) / 100,
+    };
   }
 }
 

@@ -10,11 +10,13 @@ import type { DgHeadroom, Need } from "./need.ts";
 import { classifyNeeds } from "./classify_needs.ts";
 import { designRemedies } from "./design_remedies.ts";
 import { computeDgHeadroom } from "./dg_headroom.ts";
+import type { FeederHosting } from "../hosting/host_feeder.ts";
 
 export function assessFeeder(
   form: FeederForm,
   settings: StudySettings,
   findings: readonly Finding[],
+  hosting: FeederHosting | null = null,
 ): { needs: Need[]; headroom: DgHeadroom | null } {
   const headroom = computeDgHeadroom(form, settings, settings.remedies.headroomMaxFactor);
   const drafts = classifyNeeds(form, findings);
@@ -23,6 +25,7 @@ export function assessFeeder(
     costs: settings.costs,
     options: settings.remedies,
     headroom,
+    hosting,
   });
   return { needs, headroom };
 }

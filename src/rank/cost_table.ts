@@ -36,6 +36,8 @@ export interface CostTable {
   readonly transformerPerMva: number;
   /** Replacing a switching device with a higher-rated one, each. */
   readonly switchgearReplacement: number;
+  /** Requiring a reactive-power strategy of the feeder's new generation connections (the rule, its checks). */
+  readonly connectionRulePerFeeder: number;
   /** Requiring a stronger ride-through category of one generator (settings and the owner's tests). */
   readonly rideThroughPerGenerator: number;
   /** Adding a directional element to a relay (voltage transformers, relay function), each. */
@@ -89,6 +91,7 @@ export const DEFAULT_COST_TABLE: CostTable = {
   switchgearReplacement: 30,
   directionalElement: 12,
   rideThroughPerGenerator: 4,
+  connectionRulePerFeeder: 5,
   protectionSettingPerRelay: 1.5,
   conductors: [
     {

@@ -11,6 +11,7 @@ import { studyFaults } from "../solve/study_faults.ts";
 import { checkFaults } from "../checks/check_faults.ts";
 import { checkProtection } from "../checks/check_protection.ts";
 import { screenRecovery } from "../recovery/screen_recovery.ts";
+import type { FeederHosting } from "../hosting/host_feeder.ts";
 import type { Finding } from "../checks/finding.ts";
 
 import type { CostTable, RemedyOptions } from "./cost_table.ts";
@@ -25,6 +26,8 @@ export interface RemedySettings {
   readonly options: RemedyOptions;
   /** Headroom of the feeder as it is (null without generation). */
   readonly headroom: DgHeadroom | null;
+  /** The feeder's hosting study, where it ran (a shortfall's remedies come from it). */
+  readonly hosting?: FeederHosting | null;
 }
 
 /** Candidates tried per remedy kind at most (the path reconductoring can offer many). */
@@ -43,8 +46,10 @@ export function designRemedies(
     costs: s.costs,
     options: s.options,
     lvMaxKv: s.settings.limits.lvMaxKv,
+    hosting: s.hosting ?? null,
   };
   const check = (need: NeedDraft, c: Candidate): string | null => {
+    if (c.checkedBy !== undefined) return null;
     if (c.form === null) return c.description;
     const trial = c.form;
     // The need's own cases first: most candidates fail there, at a fraction of the cost.
@@ -136,8 +141,8 @@ function costOf(c: Candidate): number {
 }
 
 function toRemedy(c: Candidate, s: RemedySettings): Remedy {
-  let capacityUnlockedMw: number | null = null;
-  if (s.headroom !== null) {
+  let capacityUnlockedMw: number | null = c.unlocksMw ?? null;
+  if (c.unlocksMw === undefined && s.headroom !== null) {
     const after = c.form === null
       ? null
       : computeDgHeadroom(c.form, s.settings, s.options.headroomMaxFactor);

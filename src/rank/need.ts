@@ -46,7 +46,8 @@ export type RemedyKind =
   | "transformer"
   | "switchgear"
   | "protection_scheme"
-  | "ride_through";
+  | "ride_through"
+  | "connection_strategy";
 
 /** A line of a remedy's bill of quantities. */
 export interface RemedyItem {
