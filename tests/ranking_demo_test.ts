@@ -24,7 +24,7 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
     const classAt = run.ranking.map((n) => order.indexOf(n.needClass));
     assert(classAt.every((c, i) => i === 0 || classAt[i - 1]! <= c));
     // Besides the protection needs: a breaker below the fault level (safety), the thermal
-    // needs by benefit per cost, then the planning one.
+    // needs by benefit per cost, then the planning ones.
     const core = run.ranking.filter((n) =>
       !n.kind.startsWith("protection_") && n.kind !== "hosting_shortfall"
     );
@@ -34,7 +34,15 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
       ["HTH-N2", "device_overload"],
       ["CTY-K4", "line_overload"],
       ["MOR-L1", "voltage_change"],
+      ["MOR-L1", "post_fault_recovery"],
     ]);
+    // The grain dryer's motors stall behind the recloser's slow clearing and overload the
+    // spur fuse after the fault; requiring Category III of the units does not help (the
+    // motors stall all the same), so the need stays with the options its finding names.
+    const recovery = core[5]!;
+    assertEquals(recovery.worst.code, "recovery.overload");
+    assertEquals(recovery.remedy, null);
+    assert(recovery.tried.some((t) => t.kind === "ride_through"));
     // Feeders whose capacity for new generation spread with demand falls short of their
     // forecast (generation_forecast.csv) come last, in the hosting class.
     const shortfall = run.ranking.filter((n) => n.kind === "hosting_shortfall");
@@ -43,12 +51,12 @@ Deno.test("runStudy() ranks the demo fleet's needs with checked, priced remedies
       assertEquals(n.needClass, "hosting");
       assert(n.worst.value < n.worst.limit, n.summary);
     }
-    // On the rural feeder a connection rule is enough: absorbing at 0.95 takes the forecast
-    // (the hosting study checked it with full load flows) and unlocks the difference.
+    // On the rural feeder a connection rule is enough: absorbing at 0.95 takes the 5 MW
+    // forecast (the hosting study checked it with full load flows) and unlocks the difference.
     const ruralShort = shortfall.find((n) => n.feederId === "MOR-L1")!;
     assertEquals(ruralShort.remedy?.kind, "connection_strategy");
     assert(
-      ruralShort.remedy!.capacityUnlockedMw! > 8,
+      ruralShort.remedy!.capacityUnlockedMw! > 5,
       String(ruralShort.remedy!.capacityUnlockedMw),
     );
     const perCost = core.slice(1, 4).map((n) => n.benefitPerCost!);
