@@ -13,9 +13,9 @@ import { voltageLevelOf } from "./_voltage_band.ts";
  * Above this many buses a case is drawn binned: a chart of every bus and branch of a very
  * large feeder is unreadable and takes seconds to render.
  */
-export const PROFILE_DETAIL_BUSES = 600;
+export const PROFILE_DETAIL_BUSES = 150;
 /** Distance bins of a binned profile. */
-export const PROFILE_BINS = 200;
+export const PROFILE_BINS = 100;
 
 type Point = { case: string; bus: string; km: number; v: number };
 type Segment = { case: string; km: number; km2: number; v: number; v2: number };
