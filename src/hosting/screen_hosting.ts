@@ -22,6 +22,7 @@
  * Converter breaking duty is linear in the unit's rating in the short-circuit study's model
  * (its current added in magnitude on the side it feeds), so the screen gives it exactly.
  */
+import { magnitude } from "../model/magnitude.ts";
 import type { FeederForm } from "../model/feeder_form.ts";
 import type { FindingPlace } from "../checks/finding.ts";
 import type { FaultStudy } from "../solve/study_faults.ts";
@@ -162,7 +163,7 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
     wIm: 0,
   });
   for (let k = 1; k < n; k++) {
-    const vr0 = solved.vRePu[k]!, vi0 = solved.vImPu[k]!, v0 = Math.hypot(vr0, vi0);
+    const vr0 = solved.vRePu[k]!, vi0 = solved.vImPu[k]!, v0 = magnitude(vr0, vi0);
     const cth = vr0 / v0, sth = vi0 / v0;
     let q = r.mode === "fixed_power_factor"
       ? -Math.sqrt(1 - r.powerFactor ** 2) / r.powerFactor
@@ -181,7 +182,7 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
       let slope = 0, code = CODE.search_range;
       for (let m = k; m > 0; m = parent[m]!) {
         const ur = zpRe[m]! * wr - zpIm[m]! * wi, ui = zpRe[m]! * wi + zpIm[m]! * wr;
-        const vmr = solved.vRePu[m]!, vmi = solved.vImPu[m]!, vm = Math.hypot(vmr, vmi);
+        const vmr = solved.vRePu[m]!, vmi = solved.vImPu[m]!, vm = magnitude(vmr, vmi);
         for (let t = 0; t < TERMS; t++) {
           const ht = h[m * TERMS + t]!;
           if (!Number.isFinite(ht)) continue;
@@ -222,7 +223,7 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
         wRe: wr,
         wIm: wi,
       };
-      vk = Math.hypot(
+      vk = magnitude(
         vr0 + pBest * (zpRe[k]! * wr - zpIm[k]! * wi),
         vi0 + pBest * (zpRe[k]! * wi + zpIm[k]! * wr),
       );
@@ -243,7 +244,7 @@ function rootOfMagnitude(ar: number, ai: number, ur: number, ui: number, target:
 
 /** d|a + P·u|/dP at P. */
 function magnitudeSlope(ar: number, ai: number, ur: number, ui: number, p: number): number {
-  const xr = ar + p * ur, xi = ai + p * ui, m = Math.hypot(xr, xi);
+  const xr = ar + p * ur, xi = ai + p * ui, m = magnitude(xr, xi);
   return m > 0 ? (xr * ur + xi * ui) / m : 0;
 }
 

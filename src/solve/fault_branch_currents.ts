@@ -13,6 +13,7 @@
  * shunts (y·ΔV) and the fault draw, minus what its converters inject — summed from the
  * leaves, so closed switching devices (no impedance) need no special case.
  */
+import { magnitude } from "../model/magnitude.ts";
 import type { FeederForm } from "../model/feeder_form.ts";
 import type { FaultSettings } from "./fault_settings.ts";
 import {
@@ -76,7 +77,7 @@ export function branchCurrentsForFault(
   const jRe = new Float64Array(n), jIm = new Float64Array(n);
   let source = nets.c[k]!;
   m.converterColumns.forEach((col, i) => {
-    const z = Math.hypot(col.re[k]!, col.im[k]!);
+    const z = magnitude(col.re[k]!, col.im[k]!);
     if (z === 0) return;
     const bus = nets.converterBus[i]!, mag = nets.converterIPu[i]!;
     jRe[bus] = jRe[bus]! + mag * col.re[k]! / z;
@@ -156,16 +157,16 @@ export function branchCurrentsForFault(
   const iKa = new Float64Array(Math.max(0, n - 1));
   const residualKa = new Float64Array(Math.max(0, n - 1));
   const direction = new Int8Array(Math.max(0, n - 1));
-  const scale = Math.hypot(i1r, i1i) * 1e-9;
+  const scale = magnitude(i1r, i1i) * 1e-9;
   for (let b = 1; b < n; b++) {
-    const mag = Math.hypot(outRe[b]!, outIm[b]!);
+    const mag = magnitude(outRe[b]!, outIm[b]!);
     iKa[b - 1] = mag / (Math.sqrt(3) * form.vnKv[b]!);
-    residualKa[b - 1] = 3 * Math.hypot(resRe[b]!, resIm[b]!) / (Math.sqrt(3) * form.vnKv[b]!);
+    residualKa[b - 1] = 3 * magnitude(resRe[b]!, resIm[b]!) / (Math.sqrt(3) * form.vnKv[b]!);
     // Direction against the fault current's phase at the fault.
     const dot = outRe[b]! * i1r + outIm[b]! * i1i;
     direction[b - 1] = mag <= scale ? 0 : dot > 0 ? 1 : -1;
   }
-  const faultPu = (earth ? 3 : 1) * Math.hypot(i1r, i1i);
+  const faultPu = (earth ? 3 : 1) * magnitude(i1r, i1i);
   return { faultKa: faultPu / (Math.sqrt(3) * form.vnKv[k]!), iKa, direction, residualKa };
 }
 

@@ -7,6 +7,7 @@
  * Reported as a share of c — the fraction of the pre-fault voltage a generator or motor there
  * still sees. Two O(n) tree passes per fault.
  */
+import { magnitude } from "../model/magnitude.ts";
 import type { FaultModel } from "./fault_branch_currents.ts";
 import { treeColumn, treeSolve } from "./tree_column.ts";
 
@@ -38,7 +39,7 @@ export function retainedVoltages(
   s.jIm.fill(0);
   let source = nets.c[k]!;
   m.converterColumns.forEach((col, i) => {
-    const z = Math.hypot(col.re[k]!, col.im[k]!);
+    const z = magnitude(col.re[k]!, col.im[k]!);
     if (z === 0) return;
     const bus = nets.converterBus[i]!, mag = nets.converterIPu[i]!;
     s.jRe[bus] = s.jRe[bus]! + mag * col.re[k]! / z;
@@ -62,6 +63,6 @@ export function retainedVoltages(
   for (let i = 0; i < n; i++) {
     const vr = c - (s.colRe[i]! * i1r - s.colIm[i]! * i1i) + s.zjRe[i]!;
     const vi = -(s.colRe[i]! * i1i + s.colIm[i]! * i1r) + s.zjIm[i]!;
-    out[i] = Math.min(Math.hypot(vr, vi) / c, 1);
+    out[i] = Math.min(magnitude(vr, vi) / c, 1);
   }
 }

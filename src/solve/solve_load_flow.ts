@@ -4,6 +4,7 @@
  * volt-var as a damped fixed point inside the iteration, and on-load tap changers as an
  * outer control loop. Conventions: see load_flow_types.ts.
  */
+import { magnitude } from "../model/magnitude.ts";
 import { type Diagnostic, makeDiagnostic } from "../model/diagnostic.ts";
 import type { FeederForm } from "../model/feeder_form.ts";
 import { transformerRatio } from "../model/transformer_ratio.ts";
@@ -189,7 +190,7 @@ export function solveLoadFlow(
         const zr = pre.zRe[b]!, zi = pre.zIm[b]!;
         eRe[l] = (vRe[f]! * ar + vIm[f]! * ai) / mm - vRe[t]! - (zr * jr - zi * ji);
         eIm[l] = (vIm[f]! * ar - vRe[f]! * ai) / mm - vIm[t]! - (zr * ji + zi * jr);
-        const e = Math.hypot(eRe[l]!, eIm[l]!);
+        const e = magnitude(eRe[l]!, eIm[l]!);
         if (e > change) change = e;
       }
       for (let l = 0; l < nLoop; l++) {
@@ -206,7 +207,7 @@ export function solveLoadFlow(
       // Voltage-controlled generators: ΔQ = X⁻¹·Δ|V|, within their limits.
       if (pvInv !== undefined && m > 0) {
         for (let i = 0; i < m; i++) {
-          dv[i] = gen.vSetPu[pvIdx[i]!]! - Math.hypot(vRe[pvBus[i]!]!, vIm[pvBus[i]!]!);
+          dv[i] = gen.vSetPu[pvIdx[i]!]! - magnitude(vRe[pvBus[i]!]!, vIm[pvBus[i]!]!);
         }
         for (let i = 0; i < m; i++) {
           const g = pvIdx[i]!;
@@ -227,7 +228,7 @@ export function solveLoadFlow(
           -gen.qMaxPu[g]!,
           Math.min(
             gen.qMaxPu[g]!,
-            interpolateCurve(gen.curves[g]!, Math.hypot(vRe[k]!, vIm[k]!)) * sRated,
+            interpolateCurve(gen.curves[g]!, magnitude(vRe[k]!, vIm[k]!)) * sRated,
           ),
         );
         const gap = target - gen.qPu[g]!;
@@ -237,7 +238,7 @@ export function solveLoadFlow(
       residual = change;
       let lowest = Infinity;
       for (let k = 0; k < n; k++) {
-        const v = Math.hypot(vRe[k]!, vIm[k]!);
+        const v = magnitude(vRe[k]!, vIm[k]!);
         if (!(v >= lowest)) lowest = v; // NaN-safe
       }
       if (!(lowest >= options.collapseVoltagePu)) {
@@ -271,7 +272,7 @@ export function solveLoadFlow(
       const lr = c.ldcROhm / zBase, lx = c.ldcXOhm / zBase;
       const vr = vRe[k]! - (lr * jRe[b]! - lx * jIm[b]!);
       const vi = vIm[k]! - (lr * jIm[b]! + lx * jRe[b]!);
-      const dev = Math.hypot(vr, vi) - c.vSetPu;
+      const dev = magnitude(vr, vi) - c.vSetPu;
       if (Math.abs(dev) <= c.bandPu / 2 || t.tap.stepPercent <= 0) continue;
       const steps = Math.max(1, Math.round(Math.abs(dev) / (t.tap.stepPercent / 100)));
       // Raising an HV-side tap lowers the LV voltage; an LV-side tap raises it.
@@ -377,7 +378,7 @@ function collectResult(
   const n = form.nBus, nb = form.nBranch;
   const kw = 1000 * BASE_MVA;
   const vMagPu = new Float64Array(n);
-  for (let k = 0; k < n; k++) vMagPu[k] = Math.hypot(s.vRe[k]!, s.vIm[k]!);
+  for (let k = 0; k < n; k++) vMagPu[k] = magnitude(s.vRe[k]!, s.vIm[k]!);
   const iA = new Float64Array(nb);
   const pFromKw = new Float64Array(nb), qFromKvar = new Float64Array(nb);
   const pToKw = new Float64Array(nb), qToKvar = new Float64Array(nb);
@@ -385,7 +386,7 @@ function collectResult(
   for (let b = 0; b < nb; b++) {
     const f = form.branchFrom[b]!, t = form.branchTo[b]!;
     const jr = s.jRe[b]!, ji = s.jIm[b]!;
-    iA[b] = Math.hypot(jr, ji) * pre.baseCurrentA[t]!;
+    iA[b] = magnitude(jr, ji) * pre.baseCurrentA[t]!;
     // S_to = V_to·conj(J); S_from = V_from·conj(J)/a (power into the ideal ratio).
     pToKw[b] = (s.vRe[t]! * jr + s.vIm[t]! * ji) * kw;
     qToKvar[b] = (s.vIm[t]! * jr - s.vRe[t]! * ji) * kw;

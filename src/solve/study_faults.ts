@@ -13,6 +13,7 @@
  * The peak current takes κ = 1.02 + 0.98·e^(−3R/X) from the positive-sequence impedance at
  * the fault (on meshed feeders 1.15·κ, at most 2.0; method B [memory]).
  */
+import { magnitude } from "../model/magnitude.ts";
 import { roundTo } from "../model/round_to.ts";
 import type { FeederForm } from "../model/feeder_form.ts";
 import { type Diagnostic, makeDiagnostic } from "../model/diagnostic.ts";
@@ -161,7 +162,7 @@ function solveCondition(
       z0Im[k] = d0.ok ? d0.im[k * n + k]! : Infinity;
       for (let j = 0; j < nets.converterBus.length; j++) {
         const m = nets.converterBus[j]!;
-        eff[k] = eff[k]! + Math.hypot(d1.re[k * n + m]!, d1.im[k * n + m]!) * nets.converterIPu[j]!;
+        eff[k] = eff[k]! + magnitude(d1.re[k * n + m]!, d1.im[k * n + m]!) * nets.converterIPu[j]!;
       }
     }
   }
@@ -196,16 +197,16 @@ export function faultCurrents(
   z0i: number,
   kappaFactor = 1,
 ): BusFaultCurrents {
-  const ik3 = e / Math.hypot(z1r, z1i);
-  const ik2 = SQRT3 * e / Math.hypot(z1r + z2r, z1i + z2i);
+  const ik3 = e / magnitude(z1r, z1i);
+  const ik2 = SQRT3 * e / magnitude(z1r + z2r, z1i + z2i);
   const earthed = Number.isFinite(z0r) && Number.isFinite(z0i);
   let ik1: number | null = null, ikE2E: number | null = null;
   if (earthed) {
-    ik1 = 3 * e / Math.hypot(z1r + z2r + z0r, z1i + z2i + z0i);
+    ik1 = 3 * e / magnitude(z1r + z2r + z0r, z1i + z2i + z0i);
     // Earth current 3·I0 of a double line-to-earth fault: 3·E·|Z2| / |Z1Z2 + Z1Z0 + Z2Z0|.
     const pr = z1r * z2r - z1i * z2i + z1r * z0r - z1i * z0i + z2r * z0r - z2i * z0i;
     const pi = z1r * z2i + z1i * z2r + z1r * z0i + z1i * z0r + z2r * z0i + z2i * z0r;
-    ikE2E = 3 * e * Math.hypot(z2r, z2i) / Math.hypot(pr, pi);
+    ikE2E = 3 * e * magnitude(z2r, z2i) / magnitude(pr, pi);
   }
   const rToX = z1i > 0 ? z1r / z1i : 0;
   const kappa = Math.min(2, kappaFactor * (1.02 + 0.98 * Math.exp(-3 * rToX)));
@@ -338,7 +339,7 @@ function share(yr: number, yi: number, t: TreeThevenin, k: number): number {
   // y·Zth, Zth = 1/yTot; divided by |Zth| when multiplied by the fault current e/|Zth|.
   const zr = t.zthRe[k]!, zi = t.zthIm[k]!;
   if (!Number.isFinite(zr)) return 0;
-  return Math.hypot(yr * zr - yi * zi, yr * zi + yi * zr) / Math.hypot(zr, zi);
+  return magnitude(yr * zr - yi * zi, yr * zi + yi * zr) / magnitude(zr, zi);
 }
 
 /**
@@ -366,7 +367,7 @@ function earthShare(
     fr += yr * t.zthRe[at]! - yi * t.zthIm[at]!;
     fi += yr * t.zthIm[at]! + yi * t.zthRe[at]!;
   }
-  return Math.hypot(i0r * fr - i0i * fi, i0r * fi + i0i * fr);
+  return magnitude(i0r * fr - i0i * fi, i0r * fi + i0i * fr);
 }
 
 function kappaOf(c: BusFaultCurrents): number {

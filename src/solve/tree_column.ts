@@ -6,6 +6,7 @@
  * came from), then down every other subtree (a child sees its own subtree ySub). A bus
  * cut off by an open branch gets zero.
  */
+import { magnitude } from "../model/magnitude.ts";
 import type { TreeThevenin } from "./tree_thevenin.ts";
 
 export function treeColumn(
@@ -83,7 +84,7 @@ export function transferMagnitudeSums(
   for (let i = 0; i < bus.length; i++) {
     const j = bus[i]!;
     if (Number.isFinite(t.zthRe[j]!)) {
-      up[j] = up[j]! + current[i]! * Math.hypot(t.zthRe[j]!, t.zthIm[j]!);
+      up[j] = up[j]! + current[i]! * magnitude(t.zthRe[j]!, t.zthIm[j]!);
     }
   }
   for (let k = 1; k < n; k++) {
@@ -91,9 +92,9 @@ export function transferMagnitudeSums(
     if (!Number.isFinite(zr) || !Number.isFinite(zi)) continue; // open: factors stay 0
     const yr = t.ySubRe[p]! + t.yUpRe[p]! - t.yBranchRe[k]!,
       yi = t.ySubIm[p]! + t.yUpIm[p]! - t.yBranchIm[k]!;
-    fUp[k] = 1 / Math.hypot(1 + zr * yr - zi * yi, zr * yi + zi * yr);
+    fUp[k] = 1 / magnitude(1 + zr * yr - zi * yi, zr * yi + zi * yr);
     const sr = t.ySubRe[k]!, si = t.ySubIm[k]!;
-    fDown[k] = 1 / Math.hypot(1 + zr * sr - zi * si, zr * si + zi * sr);
+    fDown[k] = 1 / magnitude(1 + zr * sr - zi * si, zr * si + zi * sr);
   }
   for (let k = n - 1; k > 0; k--) up[parent[k]!] = up[parent[k]!]! + up[k]! * fUp[k]!;
   for (let k = 1; k < n; k++) {
