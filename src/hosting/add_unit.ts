@@ -50,8 +50,14 @@ export function withUnitsAdded(
 ): FeederForm {
   if (units.length === 0) return form;
   const g = form.generators, m = units.length, n = g.n + m;
-  const grow = <T extends Float64Array | Int32Array | Uint8Array>(a: T, extra: number[]): T => {
-    const out = new (a.constructor as new (n: number) => T)(n);
+  // Typed-array copies one longer per unit; each caller names the constructor (looking it up
+  // on the array is a slow, megamorphic call in V8).
+  const grow = <T extends Float64Array | Int32Array | Uint8Array>(
+    make: new (length: number) => T,
+    a: T,
+    extra: number[],
+  ): T => {
+    const out = new make(n);
     out.set(a);
     out.set(extra, g.n);
     return out;
@@ -72,20 +78,25 @@ export function withUnitsAdded(
     generators: {
       n,
       ids: [...g.ids, ...units.map((u) => u.id)],
-      bus: grow(g.bus, units.map((u) => u.bus)),
+      bus: grow(Int32Array, g.bus, units.map((u) => u.bus)),
       kind: grow(
+        Uint8Array,
         g.kind,
         units.map((u) => u.kind === "synchronous" ? GENERATOR_SYNCHRONOUS : GENERATOR_CONVERTER),
       ),
-      sRatedKva: grow(g.sRatedKva, units.map((u) => unitRatingKva(u.strategy.reactive, u.pKw))),
-      pKw: grow(g.pKw, units.map((u) => u.pKw / scale)),
-      phases: grow(g.phases, units.map((u) => form.busPhases[u.bus]!)),
-      delta: grow(g.delta, units.map(() => 0)),
+      sRatedKva: grow(
+        Float64Array,
+        g.sRatedKva,
+        units.map((u) => unitRatingKva(u.strategy.reactive, u.pKw)),
+      ),
+      pKw: grow(Float64Array, g.pKw, units.map((u) => u.pKw / scale)),
+      phases: grow(Uint8Array, g.phases, units.map((u) => form.busPhases[u.bus]!)),
+      delta: grow(Uint8Array, g.delta, units.map(() => 0)),
       reactive: [...g.reactive, ...units.map((u) => modeOf(u.strategy))],
-      faultCurrentLimitPu: grow(g.faultCurrentLimitPu, units.map(() => NaN)),
-      xdSubtransientPu: grow(g.xdSubtransientPu, units.map(() => NaN)),
-      rToX: grow(g.rToX, units.map(() => NaN)),
-      lockedRotorRatio: grow(g.lockedRotorRatio, units.map(() => NaN)),
+      faultCurrentLimitPu: grow(Float64Array, g.faultCurrentLimitPu, units.map(() => NaN)),
+      xdSubtransientPu: grow(Float64Array, g.xdSubtransientPu, units.map(() => NaN)),
+      rToX: grow(Float64Array, g.rToX, units.map(() => NaN)),
+      lockedRotorRatio: grow(Float64Array, g.lockedRotorRatio, units.map(() => NaN)),
       rideThrough: [...g.rideThrough, ...units.map(() => null)],
     },
     reactiveCurves: curves,

@@ -28,6 +28,12 @@ export interface PreparedLoadFlow {
   readonly loopZinvIm: Float64Array;
   /** False when the breakpoint matrix is singular (a loop of zero impedance). */
   readonly loopsSolvable: boolean;
+  /**
+   * Inverse reactance matrices of voltage-controlled bus sets already computed, by the buses'
+   * indices joined with ","; they depend on the tree only, so every case and every trial on
+   * the same feeder shares them.
+   */
+  readonly pvInverses: Map<string, Float64Array | undefined>;
 }
 
 /** Base power of the per-unit system, MVA. */
@@ -109,6 +115,7 @@ export function prepareLoadFlow(form: FeederForm): PreparedLoadFlow {
     loopZinvRe,
     loopZinvIm,
     loopsSolvable,
+    pvInverses: new Map(),
   };
 }
 

@@ -72,7 +72,11 @@ export function solveLoadFlow(
     Array.from({ length: G.n }, (_, i) => i).filter((i) => gen.mode[i] === Q_VOLTAGE_CONTROL),
   );
   const pvBus = Int32Array.from(pvIdx, (i) => G.bus[i]!);
-  const pvInv = pvReactanceInverse(form, pre.zIm, pvBus);
+  const pvKey = pvBus.join(",");
+  if (!pre.pvInverses.has(pvKey)) {
+    pre.pvInverses.set(pvKey, pvReactanceInverse(form, pre.zIm, pvBus));
+  }
+  const pvInv = pre.pvInverses.get(pvKey);
   const m = pvIdx.length;
   if (pvInv === undefined) {
     diagnostics.push(makeDiagnostic(
