@@ -34,6 +34,58 @@ export interface PreparedLoadFlow {
    * the same feeder shares them.
    */
   readonly pvInverses: Map<string, Float64Array | undefined>;
+  /**
+   * Working arrays the solver overwrites on every call (none of them is part of a result), so
+   * the cases and trials of a feeder allocate them once. One solve at a time per preparation.
+   */
+  readonly work: LoadFlowWork;
+}
+
+export interface LoadFlowWork {
+  /** Per bus: ZIP parts of the demand, shunt susceptance, draws, sums, generation. */
+  readonly pz: Float64Array;
+  readonly pi: Float64Array;
+  readonly pp: Float64Array;
+  readonly qz: Float64Array;
+  readonly qi: Float64Array;
+  readonly qp: Float64Array;
+  readonly bShunt: Float64Array;
+  readonly drawRe: Float64Array;
+  readonly drawIm: Float64Array;
+  readonly accRe: Float64Array;
+  readonly accIm: Float64Array;
+  readonly genP: Float64Array;
+  readonly genQ: Float64Array;
+  /** Per branch: complex ratio at the present taps and its current factor. */
+  readonly aRe: Float64Array;
+  readonly aIm: Float64Array;
+  readonly gRe: Float64Array;
+  readonly gIm: Float64Array;
+  readonly hasRatio: Uint8Array;
+}
+
+function loadFlowWork(n: number, nb: number): LoadFlowWork {
+  const bus = () => new Float64Array(n), branch = () => new Float64Array(nb);
+  return {
+    pz: bus(),
+    pi: bus(),
+    pp: bus(),
+    qz: bus(),
+    qi: bus(),
+    qp: bus(),
+    bShunt: bus(),
+    drawRe: bus(),
+    drawIm: bus(),
+    accRe: bus(),
+    accIm: bus(),
+    genP: bus(),
+    genQ: bus(),
+    aRe: branch(),
+    aIm: branch(),
+    gRe: branch(),
+    gIm: branch(),
+    hasRatio: new Uint8Array(nb),
+  };
 }
 
 /** Base power of the per-unit system, MVA. */
@@ -116,6 +168,7 @@ export function prepareLoadFlow(form: FeederForm): PreparedLoadFlow {
     loopZinvIm,
     loopsSolvable,
     pvInverses: new Map(),
+    work: loadFlowWork(n, nb),
   };
 }
 

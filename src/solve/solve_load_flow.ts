@@ -46,8 +46,9 @@ export function solveLoadFlow(
   const pre = prepared;
 
   // Case data per bus (pu): ZIP parts of the demand and fixed shunt susceptance.
-  const pz = new Float64Array(n), pi = new Float64Array(n), pp = new Float64Array(n);
-  const qz = new Float64Array(n), qi = new Float64Array(n), qp = new Float64Array(n);
+  const w = pre.work;
+  const { pz, pi, pp, qz, qi, qp } = w;
+  for (const a of [pz, pi, pp, qz, qi, qp]) a.fill(0);
   const L = form.loads;
   const scale = lfCase.demandScale / 1000 / BASE_MVA;
   for (let i = 0; i < L.n; i++) {
@@ -61,7 +62,8 @@ export function solveLoadFlow(
     qi[k] = qi[k]! + q0 * L.zipI[i]!;
     qp[k] = qp[k]! + q0 * L.zipP[i]!;
   }
-  const bShunt = Float64Array.from(pre.lineChargingPu);
+  const bShunt = w.bShunt;
+  bShunt.set(pre.lineChargingPu);
   for (let i = 0; i < form.shunts.n; i++) {
     const k = form.shunts.bus[i]!;
     bShunt[k] = bShunt[k]! + form.shunts.qRatedKvar[i]! / 1000 / BASE_MVA;
@@ -87,14 +89,12 @@ export function solveLoadFlow(
     ));
   }
 
-  // Working arrays, allocated once per case.
-  const aRe = Float64Array.from(pre.aRe), aIm = Float64Array.from(pre.aIm);
-  const gRe = new Float64Array(nb), gIm = new Float64Array(nb), hasRatio = new Uint8Array(nb);
+  // Working arrays: the preparation's (overwritten here), and the ones the result keeps.
+  const { aRe, aIm, gRe, gIm, hasRatio, accRe, accIm, drawRe, drawIm, genP, genQ } = w;
+  aRe.set(pre.aRe);
+  aIm.set(pre.aIm);
   const vRe = new Float64Array(n), vIm = new Float64Array(n);
   const jRe = new Float64Array(nb), jIm = new Float64Array(nb);
-  const accRe = new Float64Array(n), accIm = new Float64Array(n);
-  const drawRe = new Float64Array(n), drawIm = new Float64Array(n);
-  const genP = new Float64Array(n), genQ = new Float64Array(n);
   const dv = new Float64Array(m);
   const eRe = new Float64Array(nLoop), eIm = new Float64Array(nLoop);
   const taps = Int32Array.from(form.transformers, (t) => t.tap.position);
