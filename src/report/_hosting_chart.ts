@@ -11,7 +11,7 @@ import { SERIES_COLOURS } from "./_chart_palette.ts";
 /** Above this many buses each strategy is drawn binned, like the voltage profile. */
 export const HOSTING_DETAIL_BUSES = 150;
 /** Distance bins of a binned chart. */
-export const HOSTING_BINS = 100;
+export const HOSTING_BINS = 60;
 
 const SHAPES = ["circle", "square", "triangle-up", "diamond", "cross", "triangle-down"];
 

@@ -15,7 +15,7 @@ import { voltageLevelOf } from "./_voltage_band.ts";
  */
 export const PROFILE_DETAIL_BUSES = 150;
 /** Distance bins of a binned profile. */
-export const PROFILE_BINS = 100;
+export const PROFILE_BINS = 60;
 
 type Point = { case: string; bus: string; km: number; v: number };
 type Segment = { case: string; km: number; km2: number; v: number; v2: number };
