@@ -32,6 +32,7 @@ import {
   type DeviceResponse,
   type FaultResponse,
   type FaultType,
+  isOnPath,
   protectiveDevices,
   simulateFaultProtection,
 } from "../solve/simulate_fault_protection.ts";
@@ -277,12 +278,6 @@ export function checkProtection(
     });
   }
   return out;
-}
-
-/** True when the device's branch lies between bus k and the source. */
-function isOnPath(form: FeederForm, branch: number, k: number): boolean {
-  for (let u = k; u > 0; u = form.parent[u]!) if (u - 1 === branch) return true;
-  return false;
 }
 
 function lowestPickupA(

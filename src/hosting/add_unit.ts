@@ -102,13 +102,3 @@ export function withUnitsAdded(
     reactiveCurves: curves,
   };
 }
-
-/** The form with every transformer's tap at the given positions (a solved case's). */
-export function withTapPositions(form: FeederForm, positions: Int32Array): FeederForm {
-  return {
-    ...form,
-    transformers: form.transformers.map((t, i) =>
-      t.tap.position === positions[i] ? t : { ...t, tap: { ...t.tap, position: positions[i]! } }
-    ),
-  };
-}

@@ -13,7 +13,7 @@ import { solveLoadFlow } from "../solve/solve_load_flow.ts";
 import type { CaseSettings, StudyCase } from "../pipeline/study_feeder.ts";
 import { exclusionsOf, type MarginExclusions } from "../rank/_limit_margin.ts";
 import type { HostingSettings } from "./hosting_settings.ts";
-import { withTapPositions } from "./add_unit.ts";
+import { withTapPositions } from "../rank/modify_form.ts";
 
 export interface HostingBase {
   /** The feeder with its tap changers where the studied case leaves them. */

@@ -15,7 +15,7 @@ import type { LoadFlowResult } from "../solve/load_flow_types.ts";
 import { solveLoadFlow } from "../solve/solve_load_flow.ts";
 import { limitMargin } from "../rank/_limit_margin.ts";
 import type { HostingBase } from "./hosting_base.ts";
-import { withTapPositions } from "./add_unit.ts";
+import { withTapPositions } from "../rank/modify_form.ts";
 
 /** What binds a hosting capacity (docs/hosting.md). */
 export type HostingCriterion =

@@ -28,6 +28,7 @@ import type { FindingPlace } from "../checks/finding.ts";
 import type { FaultStudy } from "../solve/study_faults.ts";
 import type { FaultSettings } from "../solve/fault_settings.ts";
 import { interpolateCurve } from "../solve/interpolate_curve.ts";
+import { qOfPowerFactor } from "../solve/_generator_setpoints.ts";
 import { BRANCH_TRANSFORMER } from "../model/feeder_form.ts";
 import type { HostingBase } from "./hosting_base.ts";
 import type { HostingCriterion } from "./hosting_margin.ts";
@@ -46,6 +47,9 @@ export interface ScreenedBus {
   readonly wRe: number;
   readonly wIm: number;
 }
+
+/** Q/P at a power factor from a cos φ(P) curve (positive absorbing, the load flow's convention). */
+const qRatioOfCurve = (pf: number) => qOfPowerFactor(1, pf, pf > 0);
 
 const TERMS = 3; // band, change, rapid
 /** The trial margin's code of each criterion the screen can name. */
@@ -168,7 +172,7 @@ export function screenHosting(base: HostingBase, strategy: HostingStrategy): Scr
     let q = r.mode === "fixed_power_factor"
       ? -Math.sqrt(1 - r.powerFactor ** 2) / r.powerFactor
       : r.mode === "power_factor_of_p"
-      ? qOfPowerFactor(interpolateCurve(r.points, 1))
+      ? qRatioOfCurve(interpolateCurve(r.points, 1))
       : 0;
     let vk = v0;
     let best: ScreenedBus = out[0]!;
@@ -246,13 +250,6 @@ function rootOfMagnitude(ar: number, ai: number, ur: number, ui: number, target:
 function magnitudeSlope(ar: number, ai: number, ur: number, ui: number, p: number): number {
   const xr = ar + p * ur, xi = ai + p * ui, m = magnitude(xr, xi);
   return m > 0 ? (xr * ur + xi * ui) / m : 0;
-}
-
-/** Q/P of a power factor, the load flow's convention (positive absorbing). */
-function qOfPowerFactor(pf: number): number {
-  const c = Math.min(Math.abs(pf), 1);
-  const t = c > 0 ? Math.sqrt(1 - c * c) / c : 0;
-  return pf > 0 ? -t : t;
 }
 
 function place(form: FeederForm, kind: "bus" | "branch", i: number): FindingPlace {

@@ -37,6 +37,16 @@ export function withReactiveModes(
   };
 }
 
+/** Every transformer's tap at the given positions (a solved case's). */
+export function withTapPositions(form: FeederForm, positions: Int32Array): FeederForm {
+  return {
+    ...form,
+    transformers: form.transformers.map((t, i) =>
+      t.tap.position === positions[i] ? t : { ...t, tap: { ...t.tap, position: positions[i]! } }
+    ),
+  };
+}
+
 /** The voltage set-point of transformer `index`'s tap-changer control. */
 export function withTapSetpoint(form: FeederForm, index: number, vSetPu: number): FeederForm {
   return {

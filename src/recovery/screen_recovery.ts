@@ -21,12 +21,16 @@ import type { FeederForm } from "../model/feeder_form.ts";
 import type { CaseSettings } from "../pipeline/study_feeder.ts";
 import type { FaultSettings } from "../solve/fault_settings.ts";
 import { prepareFaultModel } from "../solve/fault_branch_currents.ts";
-import { protectiveDevices, simulateFaultProtection } from "../solve/simulate_fault_protection.ts";
+import {
+  isOnPath,
+  protectiveDevices,
+  simulateFaultProtection,
+} from "../solve/simulate_fault_protection.ts";
 import { retainedScratch, retainedVoltages } from "../solve/retained_voltage.ts";
 import { solveLoadFlow } from "../solve/solve_load_flow.ts";
 import { prepareLoadFlow } from "../solve/prepare_load_flow.ts";
 import type { LoadFlowCase, LoadFlowResult } from "../solve/load_flow_types.ts";
-import { withTapPositions } from "../hosting/add_unit.ts";
+import { withTapPositions } from "../rank/modify_form.ts";
 import type { RecoverySettings, RideThroughCategory } from "./recovery_settings.ts";
 import { rideThrough, tripsLater } from "./ride_through.ts";
 import { postFaultForm } from "./post_fault_form.ts";
@@ -194,7 +198,7 @@ export function screenRecovery(
         // The first device between the fault and the source to operate clears it.
         let clearingS = Infinity, clearedBy: string | null = null, cutAt = -1;
         for (const d of response.devices) {
-          if (!Number.isFinite(d.tripS) || !onPath(form, d.branch, k)) continue;
+          if (!Number.isFinite(d.tripS) || !isOnPath(form, d.branch, k)) continue;
           const t = d.tripS + (d.kind === "fuse" ? 0 : rec.breakerOpeningS);
           if (t < clearingS) {
             clearingS = t;
@@ -337,9 +341,4 @@ export function severity(o: FaultOutcome, thresholdPu: number): number {
   const dip = o.vMinPu === null ? 0 : Math.max(thresholdPu - o.vMinPu, 0);
   return dip * 1e9 + o.overloads.length * 1e7 + o.trippedKw + o.trippedLaterKw +
     0.001 * o.stalled.length;
-}
-
-function onPath(form: FeederForm, branch: number, k: number): boolean {
-  for (let u = k; u > 0; u = form.parent[u]!) if (u - 1 === branch) return true;
-  return false;
 }

@@ -26,7 +26,7 @@ export interface GeneratorSetpoints {
 }
 
 /** Reactive power for a power factor: absorbing gives a negative injection. */
-function qOfPowerFactor(p: number, pf: number, absorbing: boolean): number {
+export function qOfPowerFactor(p: number, pf: number, absorbing: boolean): number {
   const c = Math.min(Math.abs(pf), 1);
   const q = c > 0 ? p * Math.sqrt(1 - c * c) / c : 0;
   return absorbing ? -q : q;

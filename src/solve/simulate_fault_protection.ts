@@ -51,6 +51,12 @@ export interface FaultResponse {
   readonly first: DeviceResponse | null;
 }
 
+/** True when tree branch `branch` lies between bus k and the source (a device there sees the fault). */
+export function isOnPath(form: FeederForm, branch: number, k: number): boolean {
+  for (let u = k; u > 0; u = form.parent[u]!) if (u - 1 === branch) return true;
+  return false;
+}
+
 /** Devices with protection: relay stages or a fuse curve, on a tree branch. */
 export function protectiveDevices(form: FeederForm): FormDevice[] {
   return form.devices.filter((d) =>
